@@ -1,0 +1,81 @@
+// Skein: Results, the plain data every reporter formats (results-format.md is the JSON contract).
+// Coefficients use the configuration's reference quantities; angles in degrees; derivatives per radian or per
+// unit non-dimensional rate (p b/2V, q c/2V, r b/2V).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "skein/case.hpp"
+
+namespace skein {
+
+/// An ordered list of named values: the order is the order of output, and new names can be added freely.
+struct NamedValues {
+  std::vector<std::pair<std::string, double>> items;
+  void Set(const std::string& name, double v);
+  std::optional<double> Get(const std::string& name) const;
+};
+
+/// Strip loads across a surface: left tip to right tip for a symmetric surface, first section to last otherwise.
+struct StripLoads {
+  std::vector<double> y, z;            ///< m, the strip's quarter-chord midpoint
+  std::vector<double> chord;           ///< m
+  std::vector<double> gamma;           ///< Gamma / V, m (the strip's circulation per unit airspeed)
+  std::vector<double> cl;              ///< sectional normal-force coefficient
+  std::vector<double> cl_c_over_cref;  ///< span loading cl c / c_ref
+};
+
+struct SurfaceLoads {
+  std::string name;
+  double CL = 0.0, CD_induced = 0.0, CD_induced_nearfield = 0.0, CY = 0.0, Cl = 0.0, Cm = 0.0, Cn = 0.0;
+  StripLoads strips;
+};
+
+/// One flight point of a sweep.
+struct PointResult {
+  double alpha_deg = 0.0, beta_deg = 0.0, mach = 0.0;
+  Vec3 rates{0.0, 0.0, 0.0};  ///< body rates p, q, r, rad/s
+  double CL = 0.0, CD_induced = 0.0, CD_induced_nearfield = 0.0, CY = 0.0, Cl = 0.0, Cm = 0.0, Cn = 0.0;
+  std::optional<double> span_efficiency;  ///< absent when CD_induced is too small to divide by
+  NamedValues derivatives;                ///< CL_alpha, Cm_alpha, ... (results-format.md)
+  std::vector<std::pair<std::string, NamedValues>> control_derivatives;  ///< per control: CL, CY, Cl, Cm, Cn
+  std::optional<Vec3> neutral_point;      ///< m; absent when CL_alpha is zero
+  std::optional<double> static_margin;    ///< fraction of c_ref, positive = stable
+  std::vector<SurfaceLoads> surfaces;
+  std::vector<std::string> warnings;
+};
+
+/// Wall-clock seconds per stage, and threads.
+struct StageTimes {
+  double read = 0.0, mesh = 0.0, assemble = 0.0, factorise = 0.0, solve = 0.0, loads = 0.0, output = 0.0;
+  double total = 0.0;
+  int threads_given = 0, threads_used = 1;
+};
+
+struct MeshSummary {
+  std::size_t panels = 0;
+  std::size_t unknowns = 0;  ///< size of the largest linear system (half of the panels with the half model)
+  bool half_model = false;
+  int factorisations = 0;    ///< one per wake geometry
+  struct Surface {
+    std::string name;
+    std::size_t panels = 0, strips = 0;
+  };
+  std::vector<Surface> surfaces;
+};
+
+struct Results {
+  std::string title;
+  std::string source_path;
+  Reference reference;
+  MeshSummary mesh;
+  double rcond = 1.0;  ///< smallest reciprocal condition estimate of the systems factorised
+  std::vector<std::string> warnings;
+  std::vector<PointResult> points;
+  StageTimes times;
+};
+
+}  // namespace skein

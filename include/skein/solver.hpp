@@ -1,0 +1,72 @@
+// Skein stage 4, solve: influence matrices -> circulations, factorised once, many right-hand sides.
+//
+// The boundary condition at control point i is (V_onset(P_i) + v_induced(P_i)) . n_i = 0. The onset velocity is
+// linear in six flow parameters c = (V_inf / V, omega / V) (conventions.md: V_onset = V_inf - omega x (r - r_ref)),
+// so the circulation is Gamma = G c with G the solutions for six unit onset fields: the "flow basis". Every point
+// of a sweep, every derivative and every trim iteration is a combination of these columns; the matrices are
+// assembled and factorised once per wake geometry. Control derivatives add, per control, six columns solved
+// with the normal's derivative d n / d delta in place of n on the right-hand side.
+#pragma once
+
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "skein/influence.hpp"
+#include "skein/lattice.hpp"
+
+namespace skein {
+
+/// The six unit onset fields, in this order: u, v, w (uniform flow along x, y, z) and the rotations about the
+/// geometry axes x, y, z (onset -e_k x (r - r_ref)).
+inline constexpr int kBasisSize = 6;
+
+/// How a solve ended (a numerical outcome is a status, not an exception).
+enum class SolveStatus {
+  ok,
+  ill_conditioned,  ///< solved, but the reciprocal condition estimate is below kIllConditionedRcond
+  singular,         ///< the matrix is singular (or nearly so): no result
+  non_finite,       ///< a non-finite value appeared: no result
+};
+std::string ToString(SolveStatus s);
+
+/// Below this reciprocal condition number the result is flagged: round-off may then reach 1e-6 of the answer.
+inline constexpr double kIllConditionedRcond = 1e-10;
+/// Below this, the system is treated as singular.
+inline constexpr double kSingularRcond = 1e-14;
+
+struct SolverOptions {
+  int threads = 0;           ///< OpenMP threads for assembly and loads; 0 = the OpenMP default
+  bool allow_half_model = true;  ///< false forces the full lattice even for a mirror-symmetric configuration
+};
+
+/// Circulations of the flow basis on the full lattice, and the velocities they induce at the bound-vortex
+/// midpoints (what the Kutta-Joukowski loads need).
+struct BasisSolution {
+  WakeGeometry wake;
+  std::vector<SystemLayout> layouts;
+  /// Columns: the six flow-basis fields, then six per control (control m: columns 6 (m + 1) .. 6 (m + 1) + 5,
+  /// the derivative of the basis circulations with respect to that control's deflection, per radian).
+  Eigen::MatrixXd gamma;  ///< panels x columns
+  InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
+  double rcond = 1.0;   ///< smallest reciprocal condition estimate (1-norm) of the systems factorised
+  SolveStatus status = SolveStatus::ok;
+  std::string message;  ///< what went wrong, naming the likely cause, when status != ok
+  std::size_t unknowns = 0;  ///< size of the largest system factorised
+  double seconds_assemble = 0.0, seconds_factorise = 0.0, seconds_solve = 0.0, seconds_velocity = 0.0;
+};
+
+/// Onset velocity of basis field k (0..5) at point r, for the moment point r_ref.
+Vec3 BasisOnset(int k, const Vec3& r, const Vec3& r_ref);
+
+/// Right-hand sides for the flow basis and the controls on the full lattice: panels x (6 + 6 controls),
+/// b_ik = -e_k(P_i) . n_i, and for control m: -e_k(P_i) . (d n_i / d delta_m).
+Eigen::MatrixXd BasisRightHandSides(const Lattice& lat, const Vec3& moment_point);
+
+/// Assembles, factorises and solves every column for one wake geometry.
+BasisSolution SolveBasis(const Lattice& lat, const Vec3& moment_point, const WakeGeometry& wake,
+                         const SolverOptions& options);
+
+}  // namespace skein

@@ -1,0 +1,165 @@
+// skein: the command-line front. It parses arguments, calls the library and hands results to reporters;
+// all physics lives in the library.
+//
+// Exit codes: 0 success; 2 bad input (the case file, or an argument); 3 a numerical failure (singular system,
+// non-finite result); 4 an output file could not be written; 70 an internal error.
+#include <chrono>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <functional>
+#include <iostream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include <CLI/CLI.hpp>
+#include <fmt/format.h>
+
+#include "skein/skein.hpp"
+
+namespace fs = std::filesystem;
+
+namespace {
+
+constexpr int kExitInput = 2, kExitNumerical = 3, kExitOutput = 4, kExitInternal = 70;
+
+struct OutputError : std::runtime_error {
+  using std::runtime_error::runtime_error;
+};
+
+/// Files are written under a temporary name beside their target and renamed into place only when every one of
+/// them is complete, so an error (or a kill) never leaves a partial file under a requested name.
+class StagedOutputs {
+ public:
+  explicit StagedOutputs(std::vector<fs::path> inputs) : inputs_(std::move(inputs)) {}
+  ~StagedOutputs() {
+    for (const auto& f : staged_) {
+      std::error_code ec;
+      fs::remove(f.temp, ec);
+    }
+  }
+  void Add(const fs::path& target, const std::function<void(std::ostream&)>& write) {
+    for (const auto& in : inputs_) {
+      std::error_code ec;
+      if (fs::exists(target, ec) && fs::equivalent(target, in, ec))
+        throw OutputError(fmt::format("refusing to write {} over the input file", target.string()));
+    }
+    fs::path temp = target;
+    temp += fmt::format(".skein-partial-{}", staged_.size());
+    std::ofstream f(temp, std::ios::binary | std::ios::trunc);
+    if (!f) throw OutputError(fmt::format("cannot write {}: the directory is missing or not writable", target.string()));
+    staged_.push_back({temp, target});
+    write(f);
+    f.flush();
+    if (!f) throw OutputError(fmt::format("cannot write {} (disk full?)", target.string()));
+  }
+  void Commit() {
+    for (const auto& f : staged_) {
+      std::error_code ec;
+      fs::rename(f.temp, f.target, ec);
+      if (ec) throw OutputError(fmt::format("cannot write {}: {}", f.target.string(), ec.message()));
+    }
+    staged_.clear();
+  }
+
+ private:
+  struct File {
+    fs::path temp, target;
+  };
+  std::vector<fs::path> inputs_;
+  std::vector<File> staged_;
+};
+
+struct SolveArgs {
+  std::string case_path;
+  std::string json;
+  std::string csv_dir;
+  bool echo = false;
+  bool quiet = false;
+  bool full_model = false;
+  int threads = 0;
+  std::size_t max_panels = 0;
+};
+
+int RunSolve(const SolveArgs& a) {
+  using Clock = std::chrono::steady_clock;
+  const auto t0 = Clock::now();
+  skein::Case c = skein::ReadCaseFile(a.case_path);
+  const double t_read = std::chrono::duration<double>(Clock::now() - t0).count();
+  if (a.echo) {
+    skein::WriteCaseToml(c, std::cout);
+    return 0;
+  }
+  skein::RunOptions ro;
+  ro.threads = a.threads;
+  ro.max_panels = a.max_panels;
+  ro.allow_half_model = !a.full_model;
+  skein::Results r = skein::Run(c, ro);
+  r.times.read = t_read;
+  r.times.total += t_read;
+
+  const auto t_out = Clock::now();
+  StagedOutputs out({fs::path(a.case_path)});
+  std::ostringstream json_text;
+  if (!a.json.empty()) {
+    skein::report::WriteJson(r, json_text);
+    if (a.json != "-") out.Add(a.json, [&](std::ostream& f) { f << json_text.str(); });
+  }
+  if (!a.csv_dir.empty()) {
+    std::error_code ec;
+    fs::create_directories(a.csv_dir, ec);
+    if (ec) throw OutputError(fmt::format("cannot create directory {}: {}", a.csv_dir, ec.message()));
+    out.Add(fs::path(a.csv_dir) / "points.csv", [&](std::ostream& f) { skein::report::WritePointsCsv(r, f); });
+    out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
+  }
+  out.Commit();
+  r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
+  if (a.json == "-") std::cout << json_text.str();
+  if (!a.quiet) skein::report::WriteSummary(r, a.json == "-" ? std::cerr : std::cout);
+  return 0;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  CLI::App app{"skein: vortex-lattice aerodynamics for conceptual aircraft design.\n"
+               "Example: skein solve cases/survey_drone.toml --json result.json"};
+  app.set_version_flag("--version", std::string("skein ") + SKEIN_VERSION);
+  app.require_subcommand(1);
+  SolveArgs a;
+  CLI::App* solve = app.add_subcommand(
+      "solve", "Solve a case file: lift, induced drag, span efficiency, moments, derivatives and span loading.\n"
+               "Example: skein solve cases/survey_drone.toml --json out.json --csv out/");
+  solve->add_option("CASE", a.case_path, "case file (TOML)")->required();
+  solve->add_option("--json", a.json, "write the results document to FILE ('-' for standard output)")
+      ->type_name("FILE");
+  solve->add_option("--csv", a.csv_dir, "write points.csv and strips.csv into DIR")->type_name("DIR");
+  solve->add_flag("--echo", a.echo, "print the case as read, every default filled in, and stop");
+  solve->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
+  solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
+  solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
+  solve->add_flag("--quiet", a.quiet, "print no summary");
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    const int rc = app.exit(e);
+    return rc == 0 ? 0 : kExitInput;
+  }
+  try {
+    if (*solve) return RunSolve(a);
+  } catch (const skein::InputError& e) {
+    std::cerr << e.what() << '\n';
+    return kExitInput;
+  } catch (const skein::NumericalError& e) {
+    std::cerr << a.case_path << ": " << e.what() << '\n';
+    return kExitNumerical;
+  } catch (const OutputError& e) {
+    std::cerr << "skein: " << e.what() << '\n';
+    return kExitOutput;
+  } catch (const std::exception& e) {
+    std::cerr << "skein: internal error: " << e.what() << '\n';
+    return kExitInternal;
+  }
+  return 0;
+}

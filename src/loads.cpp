@@ -1,0 +1,262 @@
+// Skein stage 5, loads. See loads.hpp.
+#include "skein/loads.hpp"
+
+#include <cmath>
+
+#include "skein/biot_savart.hpp"
+#include "vec3.hpp"
+
+namespace skein {
+namespace {
+
+using namespace detail;
+
+/// Force and moment (about the moment point) of a set of panels, and their derivatives.
+struct Wrench {
+  Vec3 force{0.0, 0.0, 0.0}, moment{0.0, 0.0, 0.0};
+  void Add(const Vec3& f, const Vec3& arm) {
+    force = force + f;
+    moment = moment + Cross(arm, f);
+  }
+};
+
+/// The wind and stability axes of conventions.md and their derivatives with respect to alpha and beta.
+struct Axes {
+  Vec3 lift, drag, side, roll, pitch, yaw;
+  Axes(double a, double b) {
+    const double ca = std::cos(a), sa = std::sin(a), cb = std::cos(b), sb = std::sin(b);
+    lift = {-sa, 0.0, ca};
+    drag = {ca * cb, -sb, sa * cb};
+    side = {sb * ca, cb, sb * sa};
+    roll = {-ca, 0.0, -sa};
+    pitch = {0.0, 1.0, 0.0};
+    yaw = {sa, 0.0, -ca};
+  }
+};
+
+struct Coefficients {
+  double CL, CD, CY, Cl, Cm, Cn;
+};
+
+Coefficients ToCoefficients(const Wrench& w, const Axes& ax, const Reference& ref) {
+  const double qs = 0.5 * ref.area;
+  return {Dot(w.force, ax.lift) / qs,  Dot(w.force, ax.drag) / qs,
+          Dot(w.force, ax.side) / qs,  Dot(w.moment, ax.roll) / (qs * ref.span),
+          Dot(w.moment, ax.pitch) / (qs * ref.chord), Dot(w.moment, ax.yaw) / (qs * ref.span)};
+}
+
+}  // namespace
+
+std::array<double, kBasisSize> FlowParameters(const FlightPoint& fp) {
+  const double a = fp.alpha_deg * kDegToRad, b = fp.beta_deg * kDegToRad;
+  const double v = fp.speed > 0.0 ? fp.speed : 1.0;
+  // V_inf / V and omega / V, omega = (-p, q, -r) in geometry axes (conventions.md).
+  return {std::cos(a) * std::cos(b), -std::sin(b), std::sin(a) * std::cos(b),
+          -fp.rates[0] / v, fp.rates[1] / v, -fp.rates[2] / v};
+}
+
+std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& strip_gamma,
+                                const WakeGeometry& wake) {
+  const std::size_t ns = lat.strips.size();
+  const double d[3] = {wake.direction[0], wake.direction[1], wake.direction[2]};
+  std::vector<double> ta(3 * ns), tb(3 * ns), eps4(ns);
+  for (std::size_t m = 0; m < ns; ++m) {
+    for (std::size_t k = 0; k < 3; ++k) {
+      ta[3 * m + k] = lat.strips[m].te_left[k];
+      tb[3 * m + k] = lat.strips[m].te_right[k];
+    }
+    const double eps = kCoreFraction * Norm(lat.strips[m].te_right - lat.strips[m].te_left);
+    eps4[m] = eps * eps * eps * eps;
+  }
+  std::vector<double> drag(ns, 0.0);
+  const double h2 = 2.0 * wake.ground.height_z;
+  for (std::size_t m = 0; m < ns; ++m) {
+    const Vec3 p = 0.5 * (lat.strips[m].te_left + lat.strips[m].te_right);
+    double u = 0.0, v = 0.0, w = 0.0;
+    for (std::size_t j = 0; j < ns; ++j) {
+      double uj = 0.0, vj = 0.0, wj = 0.0;
+      AddTrefftzPairVelocity(p[0], p[1], p[2], &ta[3 * j], &tb[3 * j], d, eps4[j], uj, vj, wj);
+      if (wake.ground.enabled) {
+        // Image pair in the ground plane: reflected points in reversed order, same circulation.
+        const double ia[3] = {tb[3 * j], tb[3 * j + 1], h2 - tb[3 * j + 2]};
+        const double ib[3] = {ta[3 * j], ta[3 * j + 1], h2 - ta[3 * j + 2]};
+        AddTrefftzPairVelocity(p[0], p[1], p[2], ia, ib, d, eps4[j], uj, vj, wj);
+      }
+      u += strip_gamma[j] * uj;
+      v += strip_gamma[j] * vj;
+      w += strip_gamma[j] * wj;
+    }
+    const Vec3 n = Cross(wake.direction, lat.strips[m].te_right - lat.strips[m].te_left);
+    drag[m] = -0.5 * strip_gamma[m] * (u * n[0] + v * n[1] + w * n[2]);
+  }
+  return drag;
+}
+
+PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSolution& basis,
+                         const FlightPoint& fp) {
+  PointResult out;
+  out.alpha_deg = fp.alpha_deg;
+  out.beta_deg = fp.beta_deg;
+  out.mach = fp.mach;
+  out.rates = fp.rates;
+  const auto c = FlowParameters(fp);
+  const std::size_t n = lat.panels();
+  const std::size_t nctl = lat.controls.size();
+  const Vec3& r_ref = ref.moment_point;
+
+  // Per-panel circulation, local velocity, force, and their derivatives with respect to c and the controls.
+  Wrench total;
+  std::vector<Wrench> by_surface(lat.surfaces.size());
+  std::array<Wrench, kBasisSize> d_total{};
+  std::vector<Wrench> d_control(nctl);
+  std::vector<double> gamma(n), strip_gamma(lat.strips.size(), 0.0), strip_normal_force(lat.strips.size(), 0.0);
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto ii = static_cast<Eigen::Index>(i);
+    const Vec3 a = lat.a[i], b = lat.b[i];
+    const Vec3 mid = 0.5 * (a + b), seg = b - a, arm = mid - r_ref;
+    std::array<Vec3, kBasisSize> e{};  // onset plus induced velocity of each basis column
+    double g = 0.0;
+    Vec3 vel{0.0, 0.0, 0.0};
+    for (int k = 0; k < kBasisSize; ++k) {
+      const auto kk = static_cast<Eigen::Index>(k);
+      e[static_cast<std::size_t>(k)] =
+          BasisOnset(k, mid, r_ref) +
+          Vec3{basis.bound_velocity.u(ii, kk), basis.bound_velocity.v(ii, kk), basis.bound_velocity.w(ii, kk)};
+      g += basis.gamma(ii, kk) * c[static_cast<std::size_t>(k)];
+      vel = vel + c[static_cast<std::size_t>(k)] * e[static_cast<std::size_t>(k)];
+    }
+    gamma[i] = g;
+    const Vec3 f = g * Cross(vel, seg);
+    total.Add(f, arm);
+    by_surface[static_cast<std::size_t>(lat.surface[i])].Add(f, arm);
+    const auto strip = static_cast<std::size_t>(lat.strip[i]);
+    strip_gamma[strip] += g;
+    strip_normal_force[strip] += Dot(f, lat.strips[strip].normal);
+    const Vec3 vxs = Cross(vel, seg);
+    for (int k = 0; k < kBasisSize; ++k) {
+      const auto ku = static_cast<std::size_t>(k);
+      const Vec3 df = basis.gamma(ii, k) * vxs + g * Cross(e[ku], seg);
+      d_total[ku].Add(df, arm);
+    }
+    for (std::size_t m = 0; m < nctl; ++m) {
+      double dg = 0.0;
+      Vec3 dv{0.0, 0.0, 0.0};
+      for (int k = 0; k < kBasisSize; ++k) {
+        const auto col = static_cast<Eigen::Index>(kBasisSize * (1 + static_cast<int>(m)) + k);
+        const double ck = c[static_cast<std::size_t>(k)];
+        dg += basis.gamma(ii, col) * ck;
+        dv = dv + ck * Vec3{basis.bound_velocity.u(ii, col), basis.bound_velocity.v(ii, col),
+                            basis.bound_velocity.w(ii, col)};
+      }
+      d_control[m].Add(dg * vxs + g * Cross(dv, seg), arm);
+    }
+  }
+
+  const double alpha = fp.alpha_deg * kDegToRad, beta = fp.beta_deg * kDegToRad;
+  const Axes ax(alpha, beta);
+  const Coefficients co = ToCoefficients(total, ax, ref);
+  const double qs = 0.5 * ref.area;
+
+  // Trefftz-plane drag, per strip, and its share per surface.
+  const std::vector<double> strip_drag = TrefftzDrag(lat, strip_gamma, basis.wake);
+  double cdi = 0.0;
+  for (double dm : strip_drag) cdi += dm / qs;
+
+  out.CL = co.CL;
+  out.CD_induced = cdi;
+  out.CD_induced_nearfield = co.CD;
+  out.CY = co.CY;
+  out.Cl = co.Cl;
+  out.Cm = co.Cm;
+  out.Cn = co.Cn;
+  const double aspect = ref.span * ref.span / ref.area;
+  if (std::abs(cdi) > 1e-12 && std::abs(co.CL) > 1e-9) {
+    out.span_efficiency = co.CL * co.CL / (kPi * aspect * cdi);
+  } else {
+    out.warnings.push_back("span efficiency is undefined at zero lift (CL and CD_induced both vanish)");
+  }
+
+  // Derivatives. dc/dx for x = alpha, beta (rad) and the stability-axis rates p b/2V, q c/2V, r b/2V.
+  const double ca = std::cos(alpha), sa = std::sin(alpha), cb = std::cos(beta), sb = std::sin(beta);
+  struct Variable {
+    const char* name;
+    std::array<double, kBasisSize> dc;
+    Vec3 dlift, ddrag, dside, droll, dyaw;  // axis derivatives
+  };
+  const Vec3 zero{0.0, 0.0, 0.0};
+  const double pb = 2.0 / ref.span, qc = 2.0 / ref.chord;
+  const std::array<Variable, 5> vars{{
+      {"alpha", {-sa * cb, 0.0, ca * cb, 0.0, 0.0, 0.0}, {-ca, 0.0, -sa}, {-sa * cb, 0.0, ca * cb},
+       {-sb * sa, 0.0, sb * ca}, {sa, 0.0, -ca}, {ca, 0.0, sa}},
+      {"beta", {-ca * sb, -cb, -sa * sb, 0.0, 0.0, 0.0}, zero, {-ca * sb, -cb, -sa * sb}, {cb * ca, -sb, cb * sa},
+       zero, zero},
+      {"p", {0.0, 0.0, 0.0, -ca * pb, 0.0, -sa * pb}, zero, zero, zero, zero, zero},
+      {"q", {0.0, 0.0, 0.0, 0.0, qc, 0.0}, zero, zero, zero, zero, zero},
+      {"r", {0.0, 0.0, 0.0, sa * pb, 0.0, -ca * pb}, zero, zero, zero, zero, zero},
+  }};
+  for (const Variable& var : vars) {
+    Wrench dw;
+    for (std::size_t k = 0; k < kBasisSize; ++k) {
+      dw.force = dw.force + var.dc[k] * d_total[k].force;
+      dw.moment = dw.moment + var.dc[k] * d_total[k].moment;
+    }
+    const double dCL = (Dot(dw.force, ax.lift) + Dot(total.force, var.dlift)) / qs;
+    const double dCY = (Dot(dw.force, ax.side) + Dot(total.force, var.dside)) / qs;
+    const double dCl = (Dot(dw.moment, ax.roll) + Dot(total.moment, var.droll)) / (qs * ref.span);
+    const double dCm = Dot(dw.moment, ax.pitch) / (qs * ref.chord);
+    const double dCn = (Dot(dw.moment, ax.yaw) + Dot(total.moment, var.dyaw)) / (qs * ref.span);
+    const std::string v = var.name;
+    out.derivatives.Set("CL_" + v, dCL);
+    out.derivatives.Set("CY_" + v, dCY);
+    out.derivatives.Set("Cl_" + v, dCl);
+    out.derivatives.Set("Cm_" + v, dCm);
+    out.derivatives.Set("Cn_" + v, dCn);
+  }
+  for (std::size_t m = 0; m < nctl; ++m) {
+    const Coefficients dc = ToCoefficients(d_control[m], ax, ref);
+    NamedValues nv;
+    nv.Set("CL", dc.CL);
+    nv.Set("CY", dc.CY);
+    nv.Set("Cl", dc.Cl);
+    nv.Set("Cm", dc.Cm);
+    nv.Set("Cn", dc.Cn);
+    out.control_derivatives.emplace_back(lat.controls[m].name, nv);
+  }
+  const double cla = *out.derivatives.Get("CL_alpha"), cma = *out.derivatives.Get("Cm_alpha");
+  if (std::abs(cla) > 1e-12) {
+    const double x_np = r_ref[0] - ref.chord * cma / cla;
+    out.neutral_point = Vec3{x_np, r_ref[1], r_ref[2]};
+    out.static_margin = (x_np - r_ref[0]) / ref.chord;
+  } else {
+    out.warnings.push_back("neutral point is undefined: CL_alpha is zero");
+  }
+
+  // Surfaces and their strips.
+  for (std::size_t s = 0; s < lat.surfaces.size(); ++s) {
+    const LatticeSurface& ls = lat.surfaces[s];
+    const Coefficients cs = ToCoefficients(by_surface[s], ax, ref);
+    SurfaceLoads sl;
+    sl.name = ls.name;
+    sl.CL = cs.CL;
+    sl.CD_induced_nearfield = cs.CD;
+    sl.CY = cs.CY;
+    sl.Cl = cs.Cl;
+    sl.Cm = cs.Cm;
+    sl.Cn = cs.Cn;
+    for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m) {
+      const Strip& st = lat.strips[m];
+      sl.CD_induced += strip_drag[m] / qs;
+      const double cl = strip_normal_force[m] / (0.5 * st.chord * st.width);
+      sl.strips.y.push_back(st.quarter_chord[1]);
+      sl.strips.z.push_back(st.quarter_chord[2]);
+      sl.strips.chord.push_back(st.chord);
+      sl.strips.gamma.push_back(strip_gamma[m]);
+      sl.strips.cl.push_back(cl);
+      sl.strips.cl_c_over_cref.push_back(cl * st.chord / ref.chord);
+    }
+    out.surfaces.push_back(std::move(sl));
+  }
+  return out;
+}
+
+}  // namespace skein

@@ -1,0 +1,56 @@
+// Skein report: CSV. See report/csv.hpp.
+#include "skein/report/csv.hpp"
+
+#include <cmath>
+#include <ostream>
+
+#include <fmt/format.h>
+
+namespace skein::report {
+namespace {
+
+/// A number as CSV text: shortest round-trip form; empty for a value that could not be computed.
+std::string Cell(double v) { return std::isfinite(v) ? fmt::format("{}", v) : std::string(); }
+std::string Cell(const std::optional<double>& v) { return v ? Cell(*v) : std::string(); }
+
+/// Quotes a text field when it holds a separator, a quote or a line break.
+std::string Text(const std::string& s) {
+  if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
+  std::string q = "\"";
+  for (char ch : s) q += ch == '"' ? std::string("\"\"") : std::string(1, ch);
+  return q + "\"";
+}
+
+}  // namespace
+
+void WritePointsCsv(const Results& r, std::ostream& out) {
+  std::vector<std::string> deriv_names;
+  if (!r.points.empty())
+    for (const auto& [k, v] : r.points.front().derivatives.items) deriv_names.push_back(k);
+  out << "point,alpha_deg,beta_deg,mach,p,q,r,CL,CD_induced,CD_induced_nearfield,CY,Cl,Cm,Cn,span_efficiency";
+  for (const auto& k : deriv_names) out << ',' << k;
+  out << ",neutral_point_x,static_margin\n";
+  for (std::size_t i = 0; i < r.points.size(); ++i) {
+    const PointResult& p = r.points[i];
+    out << i;
+    for (double v : {p.alpha_deg, p.beta_deg, p.mach, p.rates[0], p.rates[1], p.rates[2], p.CL, p.CD_induced,
+                     p.CD_induced_nearfield, p.CY, p.Cl, p.Cm, p.Cn})
+      out << ',' << Cell(v);
+    out << ',' << Cell(p.span_efficiency);
+    for (const auto& k : deriv_names) out << ',' << Cell(p.derivatives.Get(k));
+    out << ',' << (p.neutral_point ? Cell((*p.neutral_point)[0]) : std::string()) << ',' << Cell(p.static_margin)
+        << '\n';
+  }
+}
+
+void WriteStripsCsv(const Results& r, std::ostream& out) {
+  out << "point,surface,strip,y,z,chord,gamma,cl,cl_c_over_cref\n";
+  for (std::size_t i = 0; i < r.points.size(); ++i)
+    for (const SurfaceLoads& s : r.points[i].surfaces)
+      for (std::size_t k = 0; k < s.strips.y.size(); ++k)
+        out << i << ',' << Text(s.name) << ',' << k << ',' << Cell(s.strips.y[k]) << ',' << Cell(s.strips.z[k])
+            << ',' << Cell(s.strips.chord[k]) << ',' << Cell(s.strips.gamma[k]) << ',' << Cell(s.strips.cl[k])
+            << ',' << Cell(s.strips.cl_c_over_cref[k]) << '\n';
+}
+
+}  // namespace skein::report

@@ -1,0 +1,138 @@
+// Skein report: JSON. See report/json.hpp and results-format.md.
+#include "skein/report/json.hpp"
+
+#include <cmath>
+#include <ostream>
+
+#include <nlohmann/json.hpp>
+
+namespace skein {
+
+void NamedValues::Set(const std::string& name, double v) {
+  for (auto& [k, x] : items)
+    if (k == name) {
+      x = v;
+      return;
+    }
+  items.emplace_back(name, v);
+}
+
+std::optional<double> NamedValues::Get(const std::string& name) const {
+  for (const auto& [k, x] : items)
+    if (k == name) return x;
+  return std::nullopt;
+}
+
+namespace report {
+namespace {
+
+using nlohmann::ordered_json;
+
+/// Turns numbers into JSON, replacing a non-finite one by null and noting where it was.
+struct Writer {
+  std::vector<std::string> problems;
+  ordered_json Num(double v, const std::string& where) {
+    if (std::isfinite(v)) return v;
+    problems.push_back(where + " could not be computed (non-finite)");
+    return nullptr;
+  }
+  ordered_json Vec(const Vec3& v, const std::string& where) {
+    return ordered_json::array({Num(v[0], where), Num(v[1], where), Num(v[2], where)});
+  }
+  ordered_json Array(const std::vector<double>& v, const std::string& where) {
+    ordered_json a = ordered_json::array();
+    for (double x : v) a.push_back(Num(x, where));
+    return a;
+  }
+  ordered_json Values(const NamedValues& nv, const std::string& where) {
+    ordered_json o = ordered_json::object();
+    for (const auto& [k, v] : nv.items) o[k] = Num(v, where + "." + k);
+    return o;
+  }
+};
+
+}  // namespace
+
+void WriteJson(const Results& r, std::ostream& out) {
+  Writer w;
+  ordered_json doc;
+  doc["format"] = "skein-result";
+  doc["version"] = 1;
+  doc["title"] = r.title;
+  doc["source"] = r.source_path;
+  doc["reference"] = {{"area", w.Num(r.reference.area, "reference.area")},
+                      {"span", w.Num(r.reference.span, "reference.span")},
+                      {"chord", w.Num(r.reference.chord, "reference.chord")},
+                      {"moment_point", w.Vec(r.reference.moment_point, "reference.moment_point")}};
+  ordered_json surfaces = ordered_json::array();
+  for (const auto& s : r.mesh.surfaces) surfaces.push_back({{"name", s.name}, {"panels", s.panels}, {"strips", s.strips}});
+  doc["mesh"] = {{"panels", r.mesh.panels},
+                 {"unknowns", r.mesh.unknowns},
+                 {"half_model", r.mesh.half_model},
+                 {"factorisations", r.mesh.factorisations},
+                 {"surfaces", surfaces}};
+  doc["solver"] = {{"rcond", w.Num(r.rcond, "solver.rcond")},
+                   {"threads_given", r.times.threads_given},
+                   {"threads_used", r.times.threads_used}};
+  doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
+                    "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
+  ordered_json points = ordered_json::array();
+  for (std::size_t i = 0; i < r.points.size(); ++i) {
+    const PointResult& p = r.points[i];
+    const std::string at = "points[" + std::to_string(i) + "]";
+    ordered_json jp;
+    jp["alpha_deg"] = w.Num(p.alpha_deg, at + ".alpha_deg");
+    jp["beta_deg"] = w.Num(p.beta_deg, at + ".beta_deg");
+    jp["mach"] = w.Num(p.mach, at + ".mach");
+    jp["rates"] = w.Vec(p.rates, at + ".rates");
+    jp["CL"] = w.Num(p.CL, at + ".CL");
+    jp["CD_induced"] = w.Num(p.CD_induced, at + ".CD_induced");
+    jp["CD_induced_nearfield"] = w.Num(p.CD_induced_nearfield, at + ".CD_induced_nearfield");
+    jp["CY"] = w.Num(p.CY, at + ".CY");
+    jp["Cl"] = w.Num(p.Cl, at + ".Cl");
+    jp["Cm"] = w.Num(p.Cm, at + ".Cm");
+    jp["Cn"] = w.Num(p.Cn, at + ".Cn");
+    jp["span_efficiency"] = p.span_efficiency ? w.Num(*p.span_efficiency, at + ".span_efficiency") : ordered_json();
+    ordered_json d = w.Values(p.derivatives, at + ".derivatives");
+    ordered_json controls = ordered_json::object();
+    for (const auto& [name, nv] : p.control_derivatives) controls[name] = w.Values(nv, at + ".controls." + name);
+    d["controls"] = controls;
+    jp["derivatives"] = d;
+    jp["neutral_point"] = p.neutral_point ? w.Vec(*p.neutral_point, at + ".neutral_point") : ordered_json();
+    jp["static_margin"] = p.static_margin ? w.Num(*p.static_margin, at + ".static_margin") : ordered_json();
+    ordered_json js = ordered_json::array();
+    for (const SurfaceLoads& s : p.surfaces) {
+      const std::string sat = at + ".surfaces." + s.name;
+      ordered_json o;
+      o["name"] = s.name;
+      o["CL"] = w.Num(s.CL, sat + ".CL");
+      o["CD_induced"] = w.Num(s.CD_induced, sat + ".CD_induced");
+      o["CD_induced_nearfield"] = w.Num(s.CD_induced_nearfield, sat + ".CD_induced_nearfield");
+      o["CY"] = w.Num(s.CY, sat + ".CY");
+      o["Cl"] = w.Num(s.Cl, sat + ".Cl");
+      o["Cm"] = w.Num(s.Cm, sat + ".Cm");
+      o["Cn"] = w.Num(s.Cn, sat + ".Cn");
+      o["strips"] = {{"y", w.Array(s.strips.y, sat + ".strips.y")},
+                     {"z", w.Array(s.strips.z, sat + ".strips.z")},
+                     {"chord", w.Array(s.strips.chord, sat + ".strips.chord")},
+                     {"gamma", w.Array(s.strips.gamma, sat + ".strips.gamma")},
+                     {"cl", w.Array(s.strips.cl, sat + ".strips.cl")},
+                     {"cl_c_over_cref", w.Array(s.strips.cl_c_over_cref, sat + ".strips.cl_c_over_cref")}};
+      js.push_back(o);
+    }
+    jp["surfaces"] = js;
+    jp["warnings"] = p.warnings;
+    points.push_back(jp);
+  }
+  std::vector<std::string> warnings = r.warnings;
+  warnings.insert(warnings.end(), w.problems.begin(), w.problems.end());
+  doc["warnings"] = warnings;
+  doc["points"] = points;
+  doc["timings"] = {{"read", r.times.read},         {"mesh", r.times.mesh},   {"assemble", r.times.assemble},
+                    {"factorise", r.times.factorise}, {"solve", r.times.solve}, {"loads", r.times.loads},
+                    {"output", r.times.output},     {"total", r.times.total}, {"threads", r.times.threads_used}};
+  out << doc.dump(2) << '\n';
+}
+
+}  // namespace report
+}  // namespace skein

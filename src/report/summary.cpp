@@ -1,0 +1,95 @@
+// Skein report: terminal summary. See report/summary.hpp.
+#include "skein/report/summary.hpp"
+
+#include <cmath>
+#include <ostream>
+
+#include <fmt/format.h>
+
+namespace skein::report {
+namespace {
+
+std::string Fixed(double v, int width, int digits) {
+  if (!std::isfinite(v)) return fmt::format("{:>{}}", "-", width);
+  if (std::abs(v) < 0.5 * std::pow(10.0, -digits)) v = 0.0;  // no "-0.0000"
+  return fmt::format("{:>{}.{}f}", v, width, digits);
+}
+
+std::string Opt(const std::optional<double>& v, int width, int digits) {
+  return v ? Fixed(*v, width, digits) : fmt::format("{:>{}}", "-", width);
+}
+
+double Get(const PointResult& p, const char* name) { return p.derivatives.Get(name).value_or(NAN); }
+
+}  // namespace
+
+void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& options) {
+  out << fmt::format("Skein: {}{}\n", r.title.empty() ? "(untitled case)" : r.title,
+                     r.source_path.empty() ? "" : fmt::format("  [{}]", r.source_path));
+  const Reference& ref = r.reference;
+  out << fmt::format("Reference  S = {:.4g} m^2{}  b = {:.4g} m{}  c = {:.4g} m{}  moment point ({:.4g}, {:.4g}, {:.4g}) m\n",
+                     ref.area, ref.area_given ? "" : "*", ref.span, ref.span_given ? "" : "*", ref.chord,
+                     ref.chord_given ? "" : "*", ref.moment_point[0], ref.moment_point[1], ref.moment_point[2]);
+  if (!(ref.area_given && ref.span_given && ref.chord_given))
+    out << "           (* from the first surface: projected area, tip-to-tip span, mean aerodynamic chord)\n";
+  std::string surf;
+  for (const auto& s : r.mesh.surfaces) surf += fmt::format("{}{} {}", surf.empty() ? "" : ", ", s.name, s.panels);
+  out << fmt::format("Mesh       {} panels ({}); {} model, {} unknowns; {} factorisation{}; rcond {:.2g}\n",
+                     r.mesh.panels, surf, r.mesh.half_model ? "half" : "full", r.mesh.unknowns,
+                     r.mesh.factorisations, r.mesh.factorisations == 1 ? "" : "s", r.rcond);
+  for (const auto& w : r.warnings) out << "Warning: " << w << '\n';
+
+  out << "\n alpha   beta       CL   CD_induced  CD_i near       CY       Cl       Cm       Cn    e\n";
+  out << "   deg    deg\n";
+  for (const PointResult& p : r.points)
+    out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.beta_deg, 6, 2) << ' ' << Fixed(p.CL, 8, 4) << ' '
+        << Fixed(p.CD_induced, 12, 6) << ' ' << Fixed(p.CD_induced_nearfield, 9, 6) << ' ' << Fixed(p.CY, 8, 4)
+        << ' ' << Fixed(p.Cl, 8, 4) << ' ' << Fixed(p.Cm, 8, 4) << ' ' << Fixed(p.Cn, 8, 4) << ' '
+        << Opt(p.span_efficiency, 5, 3) << '\n';
+
+  if (!r.points.empty()) {
+    const PointResult& p = r.points.front();
+    out << fmt::format("\nStability at alpha {:.2f} deg, beta {:.2f} deg (per rad; rates per p b/2V, q c/2V, r b/2V)\n",
+                       p.alpha_deg, p.beta_deg);
+    out << fmt::format("  CL_alpha {}   Cm_alpha {}", Fixed(Get(p, "CL_alpha"), 7, 3), Fixed(Get(p, "Cm_alpha"), 7, 3));
+    if (p.neutral_point && p.static_margin)
+      out << fmt::format("   neutral point x = {:.4g} m   static margin {:.1f}% c_ref ({})",
+                         (*p.neutral_point)[0], 100.0 * *p.static_margin,
+                         *p.static_margin > 0.0 ? "stable" : "UNSTABLE in pitch");
+    out << '\n';
+    const double cnb = Get(p, "Cn_beta"), clb = Get(p, "Cl_beta");
+    out << fmt::format("  CY_beta  {}   Cl_beta  {} ({})   Cn_beta  {} ({})\n", Fixed(Get(p, "CY_beta"), 7, 3),
+                       Fixed(clb, 7, 4), clb < 0.0 ? "stable dihedral effect" : "no dihedral stability",
+                       Fixed(cnb, 7, 4), cnb > 0.0 ? "weathercock stable" : "no weathercock stability");
+    out << fmt::format("  Cl_p     {}   Cm_q     {}   Cn_r     {}   CL_q {}\n", Fixed(Get(p, "Cl_p"), 7, 3),
+                       Fixed(Get(p, "Cm_q"), 7, 3), Fixed(Get(p, "Cn_r"), 7, 4), Fixed(Get(p, "CL_q"), 7, 3));
+    for (const auto& [name, nv] : p.control_derivatives)
+      out << fmt::format("  control {:<10} per rad: CL {}  Cm {}  Cl {}  Cn {}\n", name,
+                         Fixed(nv.Get("CL").value_or(NAN), 7, 4), Fixed(nv.Get("Cm").value_or(NAN), 7, 4),
+                         Fixed(nv.Get("Cl").value_or(NAN), 7, 4), Fixed(nv.Get("Cn").value_or(NAN), 7, 4));
+
+    if (options.strips) {
+      out << fmt::format("\nSpan loading at alpha {:.2f} deg (a sample of the strips; all of them in --json/--csv)\n",
+                         p.alpha_deg);
+      for (const SurfaceLoads& s : p.surfaces) {
+        const std::size_t n = s.strips.y.size();
+        out << fmt::format("  {}: CL {:.4f}  CD_induced {:.6f}\n", s.name, s.CL, s.CD_induced);
+        out << "        y m       z m   chord m        cl  cl c/c_ref\n";
+        const std::size_t rows = std::min<std::size_t>(n, static_cast<std::size_t>(std::max(options.strip_rows, 2)));
+        for (std::size_t k = 0; k < rows; ++k) {
+          const std::size_t i = rows == 1 ? 0 : (k * (n - 1) + (rows - 1) / 2) / (rows - 1);
+          out << "  " << Fixed(s.strips.y[i], 9, 4) << ' ' << Fixed(s.strips.z[i], 9, 4) << ' '
+              << Fixed(s.strips.chord[i], 9, 4) << ' ' << Fixed(s.strips.cl[i], 9, 4) << ' '
+              << Fixed(s.strips.cl_c_over_cref[i], 11, 4) << '\n';
+        }
+      }
+    }
+  }
+  out << "\nCautions: conceptual-design estimates from linear, inviscid theory; no stall, separation or viscous\n"
+         "drag. Verify by test, and follow the applicable airworthiness rules and licensed engineers.\n";
+  out << fmt::format("Time {:.3f} s (mesh {:.3f}, assemble {:.3f}, factorise {:.3f}, solve {:.3f}, loads {:.3f}), {} thread{}\n",
+                     r.times.total, r.times.mesh, r.times.assemble, r.times.factorise, r.times.solve, r.times.loads,
+                     r.times.threads_used, r.times.threads_used == 1 ? "" : "s");
+}
+
+}  // namespace skein::report

@@ -1,0 +1,131 @@
+// Skein: the pipeline for one case. See run.hpp.
+#include "skein/run.hpp"
+
+#include <chrono>
+#include <cmath>
+#include <map>
+#include <utility>
+
+#include <fmt/format.h>
+#include <omp.h>
+#include <unistd.h>
+
+#include "vec3.hpp"
+
+namespace skein {
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double Since(Clock::time_point t0) { return std::chrono::duration<double>(Clock::now() - t0).count(); }
+
+}  // namespace
+
+std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, bool half_model) {
+  const std::size_t cols = 6 * (1 + controls);
+  // Half model: a symmetric and an antisymmetric matrix of (N/2)^2 each; full: one N^2 matrix.
+  const std::size_t matrix = half_model ? 2 * (panels / 2 + 1) * (panels / 2 + 1) : panels * panels;
+  // Matrix, right-hand sides, circulations and induced velocities (4 x N x cols), lattice (~60 doubles/panel).
+  return 8 * (matrix + 6 * panels * cols + 60 * panels);
+}
+
+std::size_t PhysicalMemoryBytes() {
+  const long pages = sysconf(_SC_PHYS_PAGES), size = sysconf(_SC_PAGE_SIZE);
+  return pages > 0 && size > 0 ? static_cast<std::size_t>(pages) * static_cast<std::size_t>(size) : 0;
+}
+
+WakeGeometry WakeFor(const Case& c, double alpha_deg, double beta_deg) {
+  WakeGeometry w;
+  w.ground = c.ground;
+  if (c.mesh.wake == WakeDirection::freestream) {
+    const double a = alpha_deg * detail::kDegToRad, b = beta_deg * detail::kDegToRad;
+    w.direction = {std::cos(a) * std::cos(b), -std::sin(b), std::sin(a) * std::cos(b)};
+    if (!(std::abs(beta_deg) > 0.0)) w.direction[1] = 0.0;  // exactly, so the half model applies
+  }
+  return w;
+}
+
+Results Run(const Case& c, const RunOptions& options) {
+  const auto t_start = Clock::now();
+  Results res;
+  res.title = c.title;
+  res.source_path = c.source_path;
+  res.reference = c.reference;
+  res.warnings = c.warnings;
+  res.times.threads_given = options.threads;
+  if (options.threads > 0) omp_set_num_threads(options.threads);
+  res.times.threads_used = omp_get_max_threads();
+
+  if (c.flight.mach > 0.0)
+    throw InputError(c.source_path, {}, "mach > 0 is not supported yet: the Prandtl-Glauert correction is not "
+                                        "implemented; set mach = 0");
+  // Refuse a mesh that will not fit before allocating anything.
+  const std::size_t panels = CountPanels(c);
+  std::size_t controls = 0;
+  for (const Surface& s : c.surfaces) controls += s.controls.size();
+  const std::size_t need = EstimateMemoryBytes(panels, controls, false);
+  const std::size_t limit = options.memory_limit_bytes ? options.memory_limit_bytes : PhysicalMemoryBytes();
+  if (options.max_panels && panels > options.max_panels)
+    throw InputError(c.source_path, {},
+                     fmt::format("the mesh has {} panels, more than --max-panels {}", panels, options.max_panels));
+  if (limit && need > limit)
+    throw InputError(c.source_path, {},
+                     fmt::format("the mesh has {} panels and would need {:.1f} GB of memory, more than the "
+                                 "{:.1f} GB available; reduce [mesh] chordwise or spanwise",
+                                 panels, static_cast<double>(need) / 1e9, static_cast<double>(limit) / 1e9));
+
+  auto t0 = Clock::now();
+  const Lattice lat = BuildLattice(c);
+  res.times.mesh = Since(t0);
+  res.mesh.panels = lat.panels();
+  for (const LatticeSurface& s : lat.surfaces) res.mesh.surfaces.push_back({s.name, s.panels, s.strips});
+
+  SolverOptions so;
+  so.threads = options.threads;
+  so.allow_half_model = options.allow_half_model;
+
+  // Points grouped by wake geometry; each group is assembled and factorised once.
+  struct Key {
+    double a, b;
+    bool operator<(const Key& o) const { return a < o.a || (!(o.a < a) && b < o.b); }
+  };
+  const bool freestream = c.mesh.wake == WakeDirection::freestream;
+  std::map<Key, std::vector<std::size_t>> groups;
+  std::vector<std::pair<double, double>> points;
+  for (double beta : c.flight.beta_deg)
+    for (double alpha : c.flight.alpha_deg) points.emplace_back(alpha, beta);
+  for (std::size_t p = 0; p < points.size(); ++p) {
+    const Key k = freestream ? Key{points[p].first, points[p].second} : Key{0.0, 0.0};
+    groups[k].push_back(p);
+  }
+  res.points.resize(points.size());
+  for (const auto& [key, members] : groups) {
+    const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
+    BasisSolution basis = SolveBasis(lat, c.reference.moment_point, wake, so);
+    res.times.assemble += basis.seconds_assemble;
+    res.times.factorise += basis.seconds_factorise;
+    res.times.solve += basis.seconds_solve;
+    res.times.loads += basis.seconds_velocity;
+    res.rcond = std::min(res.rcond, basis.rcond);
+    res.mesh.unknowns = std::max(res.mesh.unknowns, basis.unknowns);
+    res.mesh.half_model = basis.layouts.front().kind != SystemLayout::Kind::full;
+    ++res.mesh.factorisations;
+    if (basis.status == SolveStatus::singular || basis.status == SolveStatus::non_finite)
+      throw NumericalError(basis.message);
+    if (basis.status == SolveStatus::ill_conditioned) res.warnings.push_back(basis.message);
+    t0 = Clock::now();
+    for (std::size_t p : members) {
+      FlightPoint fp;
+      fp.alpha_deg = points[p].first;
+      fp.beta_deg = points[p].second;
+      fp.mach = c.flight.mach;
+      fp.rates = c.flight.rates;
+      fp.speed = c.flight.speed;
+      res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
+    }
+    res.times.loads += Since(t0);
+  }
+  res.times.total = Since(t_start);
+  return res;
+}
+
+}  // namespace skein
