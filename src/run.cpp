@@ -55,9 +55,6 @@ Results Run(const Case& c, const RunOptions& options) {
   if (options.threads > 0) omp_set_num_threads(options.threads);
   res.times.threads_used = omp_get_max_threads();
 
-  if (c.flight.mach > 0.0)
-    throw InputError(c.source_path, {}, "mach > 0 is not supported yet: the Prandtl-Glauert correction is not "
-                                        "implemented; set mach = 0");
   // Refuse a mesh that will not fit before allocating anything.
   const std::size_t panels = CountPanels(c);
   std::size_t controls = 0;
@@ -100,7 +97,7 @@ Results Run(const Case& c, const RunOptions& options) {
   res.points.resize(points.size());
   for (const auto& [key, members] : groups) {
     const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
-    BasisSolution basis = SolveBasis(lat, c.reference.moment_point, wake, so);
+    BasisSolution basis = SolveBasis(lat, c.reference.moment_point, wake, so, c.flight.mach);
     res.times.assemble += basis.seconds_assemble;
     res.times.factorise += basis.seconds_factorise;
     res.times.solve += basis.seconds_solve;

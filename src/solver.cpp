@@ -57,17 +57,46 @@ Eigen::MatrixXd BasisRightHandSides(const Lattice& lat, const Vec3& moment_point
   return b;
 }
 
-BasisSolution SolveBasis(const Lattice& lat, const Vec3& moment_point, const WakeGeometry& wake,
-                         const SolverOptions& options) {
+Lattice StretchForCompressibility(const Lattice& lat, double beta) {
+  if (!(beta < 1.0)) return lat;
+  Lattice s = lat;
+  const double k = 1.0 / beta;
+  for (PointArray* p : {&s.a, &s.b, &s.te_a, &s.te_b, &s.control, &s.corner_le_a, &s.corner_le_b, &s.corner_te_a,
+                        &s.corner_te_b})
+    for (double& x : p->x) x *= k;
+  for (double& nx : s.normal.x) nx *= k;
+  for (std::size_t i = 0; i < s.panels(); ++i) {
+    using namespace detail;
+    const Vec3 chord = 0.5 * ((s.corner_te_a[i] - s.corner_le_a[i]) + (s.corner_te_b[i] - s.corner_le_b[i]));
+    const double eps = kCoreFraction * std::min(Norm(s.b[i] - s.a[i]), Norm(chord));
+    s.core4[i] = eps * eps * eps * eps;
+  }
+  for (Strip& st : s.strips) {
+    st.te_left[0] *= k;
+    st.te_right[0] *= k;
+    st.quarter_chord[0] *= k;
+  }
+  return s;
+}
+
+BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, const WakeGeometry& wake,
+                         const SolverOptions& options, double mach) {
+  using namespace detail;
   BasisSolution out;
   out.wake = wake;
-  out.layouts = ChooseLayouts(lat, wake, options.allow_half_model);
+  out.mach = mach;
+  const double beta = std::sqrt(1.0 - mach * mach);
+  const Lattice lat = StretchForCompressibility(physical, beta);
+  WakeGeometry swake = wake;  // the same lines in stretched axes
+  swake.direction = Normalized(Vec3{wake.direction[0] / beta, wake.direction[1], wake.direction[2]});
+  out.layouts = ChooseLayouts(lat, swake, options.allow_half_model);
 
   auto t0 = Clock::now();
-  std::vector<Eigen::MatrixXd> mats = AssembleInfluence(lat, out.layouts, wake);
+  std::vector<Eigen::MatrixXd> mats = AssembleInfluence(lat, out.layouts, swake);
   out.seconds_assemble = Since(t0);
 
-  const Eigen::MatrixXd rhs = BasisRightHandSides(lat, moment_point);
+  // The right-hand side is the physical onset flow through the physical normals.
+  const Eigen::MatrixXd rhs = BasisRightHandSides(physical, moment_point);
   const Eigen::Index ncols = rhs.cols();
   out.gamma = Eigen::MatrixXd::Zero(rhs.rows(), ncols);
 
@@ -133,7 +162,8 @@ BasisSolution SolveBasis(const Lattice& lat, const Vec3& moment_point, const Wak
     mid.y[i] = 0.5 * (lat.a.y[i] + lat.b.y[i]);
     mid.z[i] = 0.5 * (lat.a.z[i] + lat.b.z[i]);
   }
-  out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, wake);
+  out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, swake);
+  out.bound_velocity.u /= beta;  // u = d(phi)/dx = (d(phi)/dx') / beta
   out.seconds_velocity = Since(t0);
   return out;
 }

@@ -45,7 +45,8 @@ struct SolverOptions {
 /// Circulations of the flow basis on the full lattice, and the velocities they induce at the bound-vortex
 /// midpoints (what the Kutta-Joukowski loads need).
 struct BasisSolution {
-  WakeGeometry wake;
+  WakeGeometry wake;  ///< in physical (unstretched) axes
+  double mach = 0.0;
   std::vector<SystemLayout> layouts;
   /// Columns: the six flow-basis fields, then six per control (control m: columns 6 (m + 1) .. 6 (m + 1) + 5,
   /// the derivative of the basis circulations with respect to that control's deflection, per radian).
@@ -65,8 +66,17 @@ Vec3 BasisOnset(int k, const Vec3& r, const Vec3& r_ref);
 /// b_ik = -e_k(P_i) . n_i, and for control m: -e_k(P_i) . (d n_i / d delta_m).
 Eigen::MatrixXd BasisRightHandSides(const Lattice& lat, const Vec3& moment_point);
 
-/// Assembles, factorises and solves every column for one wake geometry.
+/// The lattice of the Prandtl-Glauert (Goethert) analogy: every x coordinate divided by beta = sqrt(1 - M^2),
+/// core radii recomputed, and normals replaced by (n_x / beta, n_y, n_z) so that n . grad(phi) of the
+/// compressible flow equals the stretched incompressible one's. beta = 1 returns the lattice unchanged.
+Lattice StretchForCompressibility(const Lattice& lat, double beta);
+
+/// Assembles, factorises and solves every column for one wake geometry at Mach number `mach` (0 <= mach < 1).
+/// Compressibility by the Prandtl-Glauert transformation (Goethert's rule): the incompressible problem is solved
+/// on the geometry stretched by 1/beta in x with the physical onset flow on the right-hand side; circulations
+/// carry over unchanged and the induced velocity maps back as (u / beta, v, w). The loads stage then works on
+/// the physical lattice as at Mach 0.
 BasisSolution SolveBasis(const Lattice& lat, const Vec3& moment_point, const WakeGeometry& wake,
-                         const SolverOptions& options);
+                         const SolverOptions& options, double mach = 0.0);
 
 }  // namespace skein
