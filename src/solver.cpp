@@ -1,4 +1,9 @@
 // Skein stage 4, solve. See solver.hpp.
+// Factorise with the machine's LAPACK (OpenBLAS dgetrf) through Eigen's LAPACKE backend when the build has it
+// (SKEIN_USE_OPENBLAS); Eigen's own PartialPivLU otherwise. Only this file factorises, so only it sets this.
+#if defined(SKEIN_HAVE_LAPACKE)
+#define EIGEN_USE_LAPACKE
+#endif
 #include "skein/solver.hpp"
 
 #include <chrono>
