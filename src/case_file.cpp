@@ -8,6 +8,8 @@
 // out of range), or at the table's header when a key is missing.
 #include "skein/case_file.hpp"
 
+#include "skein/atmosphere.hpp"
+
 #include <algorithm>
 #include <cerrno>
 #include <cmath>
@@ -49,6 +51,9 @@ constexpr double kSymmetryPlaneTolerance = 1e-12;
 constexpr double kZeroSegmentTolerance = 1e-9;
 /// Fraction of |step|: a range end this close to a step is included.
 constexpr double kRangeEndTolerance = 1e-9;
+/// Relative: speed and mach given together with altitude must agree this closely (0.5 %, the spread of
+/// rounding a mach number to two or three figures).
+constexpr double kSpeedMachTolerance = 5e-3;
 
 // ---- small text helpers ---------------------------------------------------------------------------------------
 
@@ -197,8 +202,10 @@ struct Level {
 const Level kRootLevel{"at the top of the file, before any table", {"title", "reference", "flight", "ground", "mesh", "surface", "trim"}};
 const Level kReferenceLevel{"in [reference]", {"area", "span", "chord", "moment_point"}};
 const Level kFlightLevel{"in [flight]",
-                         {"alpha", "beta", "speed", "density", "mach", "rates"},
-                         {{"velocity", "did you mean \"speed\"?"}, {"rho", "did you mean \"density\"?"}}};
+                         {"alpha", "beta", "speed", "density", "mach", "rates", "altitude"},
+                         {{"velocity", "did you mean \"speed\"?"},
+                          {"rho", "did you mean \"density\"?"},
+                          {"height", "did you mean \"altitude\"?"}}};
 const Level kRangeLevel{"in a range table { from, to, step }", {"from", "to", "step"}};
 const Level kGroundLevel{"in [ground]", {"height_z"}};
 const Level kMeshLevel{"in [mesh]", {"chordwise", "spanwise", "chordwise_spacing", "spanwise_spacing", "wake"}};
@@ -557,12 +564,53 @@ void Reader::ReadFlight(const toml::table& t, Flight& f) {
   f.speed_given = t.contains("speed");
   f.speed = Number(t, "speed", ctx, f.speed, Positive());
   f.density = Number(t, "density", ctx, f.density, Positive());
+  f.mach_given = t.contains("mach");
   f.mach = Number(t, "mach", ctx, f.mach, [](double v) {
     return v >= 0.0 && v < 1.0 ? std::string() : std::string("must be >= 0 and < 1");
   });
+  const toml::node* mach_at = t.get("mach");
+  // altitude (instead of density): the standard atmosphere gives density and viscosity, and its speed of
+  // sound ties speed (true airspeed) and mach together, so either gives the other; both must agree.
+  if (const toml::node* alt = t.get("altitude")) {
+    if (const toml::node* rho = t.get("density"))
+      Fail(Before(Where(alt->source()), Where(rho->source())) ? *rho : *alt, ctx,
+           "give either altitude (the standard atmosphere sets the density) or density, not both");
+    const double h = NumberAt(*alt, "\"altitude\"", ctx);
+    if (!(h >= kAtmosphereMinAltitude && h <= kAtmosphereMaxAltitude))
+      Fail(*alt, ctx,
+           fmt::format("altitude must be between {} and {} m (the standard atmosphere's troposphere and "
+                       "tropopause), got {}",
+                       kAtmosphereMinAltitude, kAtmosphereMaxAltitude, h));
+    const AtmosphereState air = StandardAtmosphere(h);
+    f.altitude = h;
+    f.density = air.density;
+    f.dynamic_viscosity = air.dynamic_viscosity;
+    const double a = air.speed_of_sound;
+    const toml::node* speed_at = t.get("speed");
+    if (f.speed_given && f.mach_given) {
+      if (std::abs(f.speed - f.mach * a) > kSpeedMachTolerance * std::max(f.speed, f.mach * a))
+        Fail(Before(Where(speed_at->source()), Where(mach_at->source())) ? *mach_at : *speed_at, ctx,
+             fmt::format("speed {} m/s and mach {} contradict each other at altitude {} m, where the speed of "
+                         "sound is {:.2f} m/s (speed {} m/s is mach {:.4f}); give one of them",
+                         f.speed, f.mach, h, a, f.speed, f.speed / a));
+    } else if (f.mach_given) {
+      if (!(f.mach > 0.0))
+        Fail(*mach_at, ctx, "mach 0 with altitude gives no speed; give speed (m/s) or a mach above 0");
+      f.speed = f.mach * a;
+      f.speed_given = true;
+    } else if (f.speed_given) {
+      f.mach = f.speed / a;
+      mach_at = speed_at;
+      if (!(f.mach < 1.0))
+        Fail(*speed_at, ctx,
+             fmt::format("speed {} m/s is mach {:.4f} at altitude {} m; the compressibility correction needs "
+                         "mach < 1",
+                         f.speed, f.mach, h));
+    }
+  }
   if (f.mach > kMachWarning)
-    Warn(Where(t.get("mach")->source()), ctx,
-         fmt::format("mach {} is above about {}, where the Prandtl-Glauert correction loses accuracy", f.mach,
+    Warn(Where(mach_at->source()), ctx,
+         fmt::format("mach {:.4g} is above about {}, where the Prandtl-Glauert correction loses accuracy", f.mach,
                      kMachWarning));
   if (const toml::node* n = t.get("rates")) f.rates = Vec3At(*n, "\"rates\"", ctx);
 }
@@ -1014,7 +1062,16 @@ void WriteCaseToml(const Case& c, std::ostream& out) {
     o += fmt::format("speed = {}\n", Num(f.speed));
   else
     o += "# speed not given: coefficients only (dimensional loads use 1 m/s)\n";
-  o += fmt::format("density = {}\nmach = {}\nrates = {}\n", Num(f.density), Num(f.mach), Vec(f.rates));
+  if (f.altitude)
+    o += fmt::format("altitude = {}\n# density = {}  (the standard atmosphere at this altitude)\n", Num(*f.altitude),
+                     Num(f.density));
+  else
+    o += fmt::format("density = {}\n", Num(f.density));
+  if (f.altitude && !f.speed_given)
+    o += "# mach not given: no speed, so no compressibility correction\n";
+  else
+    o += fmt::format("mach = {}\n", Num(f.mach));
+  o += fmt::format("rates = {}\n", Vec(f.rates));
 
   if (c.ground.enabled) o += fmt::format("\n[ground]\nheight_z = {}\n", Num(c.ground.height_z));
 

@@ -106,6 +106,12 @@ struct Flight {
   bool speed_given = false;
   double density = 1.225;    ///< kg/m^3, ISA sea level
   double mach = 0.0;         ///< 0 <= mach < 1
+  bool mach_given = false;
+  /// m, geopotential (pressure altitude): given instead of density, it sets density and viscosity from the
+  /// standard atmosphere (atmosphere.hpp), and ties speed and mach together through the speed of sound.
+  std::optional<double> altitude;
+  /// Pa s: the standard atmosphere's at `altitude`, or its sea-level value 1.7894e-5 when density is given.
+  double dynamic_viscosity = 1.7894e-5;
   Vec3 rates{0.0, 0.0, 0.0};  ///< body rates p, q, r, rad/s
 };
 
