@@ -236,8 +236,11 @@ Lattice BuildLattice(const Case& c) {
     const int first_control = static_cast<int>(lat.controls.size());
     for (const Control& ct : s.controls) lat.controls.push_back({ct.name, static_cast<int>(si)});
     for (std::size_t k = 0; k + 1 < stations.size(); ++k) {
-      const Station q0 = stations[k], q1 = stations[k + 1];
-      const Station qm{q0.segment, 0.5 * (q0.t + q1.t)};  // both edges lie in one segment
+      // The first strip of a segment starts where the previous segment ends (stored as that segment's t = 1):
+      // restate it as this segment's t = 0, so that both edges, and the mid-strip station, lie in one segment.
+      const Station q1 = stations[k + 1];
+      const Station q0 = stations[k].segment == q1.segment ? stations[k] : Station{q1.segment, 0.0};
+      const Station qm{q1.segment, 0.5 * (q0.t + q1.t)};
       const Vec3 le0 = le_at(q0), le1 = le_at(q1), te0 = te_at(q0), te1 = te_at(q1);
       const Vec3 lem = le_at(qm), tem = te_at(qm);
       const double w_yz = std::hypot(le1[1] - le0[1], le1[2] - le0[2]);
