@@ -9,6 +9,7 @@
 #include <fstream>
 #include <functional>
 #include <iostream>
+#include <optional>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -17,6 +18,8 @@
 #include <fmt/format.h>
 
 #include "skein/skein.hpp"
+#include "skein/report/study.hpp"
+#include "skein/study.hpp"
 
 namespace fs = std::filesystem;
 
@@ -80,6 +83,8 @@ struct SolveArgs {
   bool full_model = false;
   int threads = 0;
   std::size_t max_panels = 0;
+  bool refine = false;
+  std::size_t refine_max_panels = 6000;
 };
 
 int RunSolve(const SolveArgs& a) {
@@ -98,12 +103,23 @@ int RunSolve(const SolveArgs& a) {
   skein::Results r = skein::Run(c, ro);
   r.times.read = t_read;
   r.times.total += t_read;
+  std::optional<skein::study::ConvergenceStudy> convergence;
+  if (a.refine) {
+    skein::study::ConvergenceOptions co;
+    co.max_panels = a.refine_max_panels;
+    co.run = ro;
+    co.run.max_panels = 0;
+    convergence = skein::study::MeshConvergence(c, co);
+  }
 
   const auto t_out = Clock::now();
   StagedOutputs out({fs::path(a.case_path)});
   std::ostringstream json_text;
   if (!a.json.empty()) {
-    skein::report::WriteJson(r, json_text);
+    if (convergence)
+      skein::report::WriteJsonWithConvergence(r, *convergence, json_text);
+    else
+      skein::report::WriteJson(r, json_text);
     if (a.json != "-") out.Add(a.json, [&](std::ostream& f) { f << json_text.str(); });
   }
   if (!a.csv_dir.empty()) {
@@ -117,6 +133,7 @@ int RunSolve(const SolveArgs& a) {
   r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
   if (a.json == "-") std::cout << json_text.str();
   if (!a.quiet) skein::report::WriteSummary(r, a.json == "-" ? std::cerr : std::cout);
+  if (!a.quiet && convergence) skein::report::WriteConvergenceTable(*convergence, a.json == "-" ? std::cerr : std::cout);
   return 0;
 }
 
@@ -140,6 +157,12 @@ int main(int argc, char** argv) {
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
   solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
   solve->add_flag("--quiet", a.quiet, "print no summary");
+  solve->add_flag("--refine", a.refine,
+                  "also solve the first flight point on three nested meshes and print Richardson-extrapolated CL, "
+                  "CD_induced, Cm and span efficiency with error estimates (--json adds a \"convergence\" object)");
+  solve->add_option("--refine-max-panels", a.refine_max_panels,
+                    "largest mesh --refine may build (default 6000); beyond it the case's mesh is halved instead")
+      ->type_name("N");
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

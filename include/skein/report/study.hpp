@@ -1,0 +1,22 @@
+// Skein report: tables for people and JSON for programs, for the design studies of study.hpp.
+// Writers only format; every number comes from the study.
+#pragma once
+
+#include <iosfwd>
+
+#include "skein/results.hpp"
+#include "skein/study.hpp"
+
+namespace skein::report {
+
+/// The mesh-convergence table: one row per quantity with the three meshes' values, the extrapolated value,
+/// the order used (observed or assumed) and the error estimate, followed by the notes and the cautions.
+void WriteConvergenceTable(const study::ConvergenceStudy& s, std::ostream& out);
+
+/// The results document of json.hpp with a "convergence" object added (results-format.md: keys may be added).
+void WriteJsonWithConvergence(const Results& r, const study::ConvergenceStudy& s, std::ostream& out);
+
+/// The cautions every design-study report carries (conceptual-design estimates, linear inviscid theory).
+void WriteCautions(std::ostream& out);
+
+}  // namespace skein::report

@@ -1,0 +1,134 @@
+// Skein design studies: work that runs the pipeline several times, or works on its pieces, to answer a design
+// question. All of it is library code over plain data; nothing here prints.
+//
+//  - Mesh convergence: the case solved on three nested meshes, with Richardson extrapolation of CL,
+//    CD_induced, Cm and span efficiency and an error estimate (Roache's grid convergence index).
+//  - The Trefftz plane as a quadratic form: induced drag D = g' Q g of the strip circulations g, lift and root
+//    bending moment as linear functionals of g, prescribed span loadings, and the minimum-drag loading at a
+//    given lift (optionally at a given root bending moment).
+//  - Twist design: the section twists of one surface that give the least induced drag at a target CL.
+//
+// Units and signs: conventions.md. As in loads.hpp, Trefftz-plane quantities are for V = 1 and rho = 1.
+#pragma once
+
+#include <array>
+#include <cstddef>
+#include <functional>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "skein/case.hpp"
+#include "skein/influence.hpp"
+#include "skein/lattice.hpp"
+#include "skein/results.hpp"
+#include "skein/run.hpp"
+
+namespace skein::study {
+
+// ---------------------------------------------------------------------------------------------------------
+// Richardson extrapolation
+
+/// Factor of safety of the grid convergence index: 1.25 when the order is observed from three meshes, 3 when
+/// it is assumed (P. J. Roache, "Perspective: a method for uniform reporting of grid refinement studies",
+/// J. Fluids Eng. 116, 1994).
+inline constexpr double kSafetyObserved = 1.25;
+inline constexpr double kSafetyAssumed = 3.0;
+/// An observed order outside this range is not trusted and the assumed order is used instead (common practice).
+inline constexpr double kMinTrustedOrder = 0.5;
+inline constexpr double kMaxTrustedOrder = 4.0;
+
+struct Extrapolation {
+  double value = 0.0;           ///< Richardson-extrapolated value (the mesh-converged estimate)
+  double order = 0.0;           ///< order of convergence used
+  bool order_observed = false;  ///< true: the order came from the three values; false: it was assumed
+  double error_estimate = 0.0;  ///< grid convergence index of the finest result, in the quantity's own units
+  std::string note;             ///< why the order was assumed, or "" when observed
+};
+
+/// Richardson extrapolation from three values on meshes refined by a constant ratio r (> 1) in every
+/// direction: f_coarse (spacing r^2 h), f_medium (r h), f_fine (h). With e21 = f_medium - f_fine and
+/// e32 = f_coarse - f_medium, the observed order is p = ln(e32 / e21) / ln r when e32 / e21 > 0 (monotone) and
+/// p lies in [kMinTrustedOrder, kMaxTrustedOrder]; otherwise `assumed_order` is used and the note says why.
+/// The extrapolated value is f_fine + (f_fine - f_medium) / (r^p - 1); the error estimate is the grid
+/// convergence index Fs |f_fine - f_medium| / (r^p - 1). When e21 is at round-off the sequence has converged:
+/// the value is f_fine and the error estimate is zero.
+Extrapolation RichardsonExtrapolate(double f_coarse, double f_medium, double f_fine, double ratio,
+                                    double assumed_order);
+
+// ---------------------------------------------------------------------------------------------------------
+// Mesh convergence
+
+/// The order assumed when a sequence is not monotone: first order. Refining a swept, tapered wing here shows
+/// observed orders of 0.75 to 1.0 for CL, Cm and span efficiency and 1.2 to 1.6 for CD_induced, rising toward
+/// 1 and above as the mesh is refined (tests/unit/study_test.cpp); first order is the low end of that, so the
+/// correction and the error estimate it gives are the larger ones.
+inline constexpr double kAssumedMeshOrder = 1.0;
+
+struct ConvergenceOptions {
+  std::size_t point = 0;             ///< flight point of the case's sweep (alpha fastest, as in Run)
+  std::size_t max_panels = 6000;     ///< the finest mesh may not exceed this (unless it is the case's own)
+  double assumed_order = kAssumedMeshOrder;
+  RunOptions run;
+};
+
+struct MeshLevel {
+  double scale = 1.0;  ///< panel counts relative to the case's mesh, in each direction
+  int chordwise = 0, spanwise = 0;  ///< the case-level [mesh] counts at this level
+  std::size_t panels = 0;
+};
+
+struct ConvergenceQuantity {
+  std::string name;                ///< "CL", "CD_induced", "Cm", "span_efficiency"
+  std::array<double, 3> values{};  ///< coarse, medium, fine
+  Extrapolation extrapolation;
+};
+
+struct ConvergenceStudy {
+  double alpha_deg = 0.0, beta_deg = 0.0;
+  double ratio = 2.0;                ///< refinement ratio between levels
+  std::array<MeshLevel, 3> meshes;   ///< coarse, medium, fine
+  std::vector<ConvergenceQuantity> quantities;
+  std::vector<std::string> warnings;
+};
+
+/// The case with every panel count (case, surface and section level) multiplied by `scale`. Throws
+/// InputError when a count would not be a whole number >= 1.
+Case ScaleMesh(const Case& c, double scale);
+
+/// Solves one flight point of the case on three nested meshes, each direction refined by 2 between levels:
+/// the case's mesh x {1, 2, 4} when the finest fits in options.max_panels, else x {1/2, 1, 2}, else
+/// x {1/4, 1/2, 1} (counts must halve exactly). Throws InputError when no set can be built.
+ConvergenceStudy MeshConvergence(const Case& c, const ConvergenceOptions& options);
+
+// ---------------------------------------------------------------------------------------------------------
+// The Trefftz plane as a quadratic form
+
+/// Induced drag as a quadratic form of the strip circulations: D = g' Q g (V = rho = 1), Q symmetric, built
+/// from TrefftzDrag (loads.hpp), so it agrees with the drag every solve reports, ground images included.
+Eigen::MatrixXd TrefftzDragMatrix(const Lattice& lat, const WakeGeometry& wake);
+
+/// Lift (along l = (-sin alpha, 0, cos alpha)) of the strip circulations in the Trefftz plane, per unit g:
+/// L = sum_m g_m ((d x (TB_m - TA_m)) . l) (Kutta-Joukowski on the wake's starting line; V = rho = 1).
+Eigen::VectorXd TrefftzLiftVector(const Lattice& lat, const WakeGeometry& wake, double alpha_deg);
+
+/// Root bending moment of the right half (y > 0) of surface `surface`, per unit g, from the same forces:
+/// M = sum_{m right} g_m ((d x (TB_m - TA_m)) . l) (y_m - y_root), y_m the strip's quarter-chord station and
+/// y_root the surface's smallest |y| (its root).
+Eigen::VectorXd TrefftzRootBendingVector(const Lattice& lat, const WakeGeometry& wake, double alpha_deg,
+                                         int surface);
+
+/// Strip circulations g_m = shape(eta_m) of a prescribed loading, eta_m = y_m / s the strip's quarter-chord
+/// station over the semi-span s of surface `surface` (its largest |y|); zero on other surfaces.
+std::vector<double> PrescribedLoading(const Lattice& lat, int surface, const std::function<double(double)>& shape);
+
+/// The strip circulations of least induced drag g' Q g at lift `lift` (lift_vector . g = lift) and, when
+/// given, at root bending moment `bending` (bending_vector . g = bending), over the strips of surface
+/// `surface` (others carry none). Solved exactly: one linear KKT system.
+std::vector<double> MinimumDragLoading(const Eigen::MatrixXd& Q, const Eigen::VectorXd& lift_vector, double lift,
+                                       const Eigen::VectorXd* bending_vector, double bending,
+                                       const std::vector<int>& strips);
+
+}  // namespace skein::study

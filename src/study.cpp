@@ -1,0 +1,246 @@
+// Skein design studies. See study.hpp.
+#include "skein/study.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include <Eigen/Dense>
+#include <fmt/format.h>
+
+#include "skein/loads.hpp"
+#include "vec3.hpp"
+
+namespace skein::study {
+namespace {
+
+using namespace detail;
+
+/// A count multiplied by a scale, or nullopt when the product is not a whole number >= 1.
+std::optional<int> ScaledCount(int n, double scale) {
+  const double v = n * scale;
+  const double r = std::round(v);
+  if (std::abs(v - r) > 1e-9 || r < 1.0 || r > static_cast<double>(std::numeric_limits<int>::max()))
+    return std::nullopt;
+  return static_cast<int>(r);
+}
+
+bool CanScale(const Case& c, double scale) {
+  auto ok = [&](int n) { return ScaledCount(n, scale).has_value(); };
+  if (!ok(c.mesh.chordwise) || !ok(c.mesh.spanwise)) return false;
+  for (const Surface& s : c.surfaces) {
+    if (!ok(s.mesh.chordwise) || !ok(s.mesh.spanwise)) return false;
+    for (const Section& sec : s.sections)
+      if (sec.spanwise && !ok(*sec.spanwise)) return false;
+  }
+  return true;
+}
+
+}  // namespace
+
+Extrapolation RichardsonExtrapolate(double f_coarse, double f_medium, double f_fine, double ratio,
+                                    double assumed_order) {
+  SKEIN_ASSERT(ratio > 1.0 && assumed_order > 0.0);
+  Extrapolation out;
+  const double e21 = f_medium - f_fine, e32 = f_coarse - f_medium;
+  const double scale = std::max({std::abs(f_coarse), std::abs(f_medium), std::abs(f_fine)});
+  const double roundoff = 64.0 * std::numeric_limits<double>::epsilon() * scale;
+  if (std::abs(e21) <= roundoff) {
+    out.value = f_fine;
+    out.order = assumed_order;
+    out.order_observed = false;
+    out.error_estimate = 0.0;
+    out.note = "converged to round-off on the two finer meshes";
+    return out;
+  }
+  double p = assumed_order;
+  const double q = e32 / e21;
+  if (!(q > 0.0)) {
+    out.note = fmt::format("not monotone (oscillating): order {:g} assumed", assumed_order);
+  } else {
+    const double observed = std::log(q) / std::log(ratio);
+    if (observed >= kMinTrustedOrder && observed <= kMaxTrustedOrder) {
+      p = observed;
+      out.order_observed = true;
+    } else {
+      out.note = fmt::format("observed order {:.3g} outside [{:g}, {:g}]: order {:g} assumed", observed,
+                             kMinTrustedOrder, kMaxTrustedOrder, assumed_order);
+    }
+  }
+  const double denom = std::pow(ratio, p) - 1.0;
+  out.order = p;
+  out.value = f_fine + (f_fine - f_medium) / denom;
+  out.error_estimate = (out.order_observed ? kSafetyObserved : kSafetyAssumed) * std::abs(e21) / denom;
+  return out;
+}
+
+Case ScaleMesh(const Case& c, double scale) {
+  if (!CanScale(c, scale))
+    throw InputError(c.source_path, {},
+                     fmt::format("cannot scale the mesh by {:g}: every chordwise and spanwise count (case, surface "
+                                 "and section) must give a whole number of panels",
+                                 scale));
+  Case out = c;
+  auto apply = [&](int& n) { n = *ScaledCount(n, scale); };
+  apply(out.mesh.chordwise);
+  apply(out.mesh.spanwise);
+  for (Surface& s : out.surfaces) {
+    apply(s.mesh.chordwise);
+    apply(s.mesh.spanwise);
+    for (Section& sec : s.sections)
+      if (sec.spanwise) apply(*sec.spanwise);
+  }
+  return out;
+}
+
+ConvergenceStudy MeshConvergence(const Case& c, const ConvergenceOptions& options) {
+  const std::size_t npoints = c.flight.alpha_deg.size() * c.flight.beta_deg.size();
+  if (options.point >= npoints)
+    throw InputError(c.source_path, {},
+                     fmt::format("flight point {} does not exist: the case has {}", options.point + 1, npoints));
+  ConvergenceStudy study;
+  study.alpha_deg = c.flight.alpha_deg[options.point % c.flight.alpha_deg.size()];
+  study.beta_deg = c.flight.beta_deg[options.point / c.flight.alpha_deg.size()];
+  Case one = c;
+  one.flight.alpha_deg = {study.alpha_deg};
+  one.flight.beta_deg = {study.beta_deg};
+
+  const std::array<std::array<double, 3>, 3> sets{{{1.0, 2.0, 4.0}, {0.5, 1.0, 2.0}, {0.25, 0.5, 1.0}}};
+  std::optional<std::array<double, 3>> chosen;
+  for (const auto& set : sets) {
+    bool ok = true;
+    for (double f : set) ok = ok && CanScale(one, f);
+    if (!ok) continue;
+    const bool own = !(set[2] > 1.0);
+    if (!own && CountPanels(ScaleMesh(one, set[2])) > options.max_panels) continue;
+    chosen = set;
+    break;
+  }
+  if (!chosen)
+    throw InputError(c.source_path, {},
+                     fmt::format("cannot build three nested meshes: refining twice would exceed {} panels, and the "
+                                 "chordwise and spanwise counts do not halve exactly; use even counts in [mesh]",
+                                 options.max_panels));
+  if ((*chosen)[2] < 1.0 || (*chosen)[0] < 1.0)
+    study.warnings.push_back(fmt::format("the case's mesh is refined only to x{:g}: the coarsest mesh is x{:g}",
+                                         (*chosen)[2], (*chosen)[0]));
+
+  std::array<PointResult, 3> res;
+  for (std::size_t k = 0; k < 3; ++k) {
+    const Case scaled = ScaleMesh(one, (*chosen)[k]);
+    const Results r = Run(scaled, options.run);
+    res[k] = r.points.front();
+    study.meshes[k] = {(*chosen)[k], scaled.mesh.chordwise, scaled.mesh.spanwise, r.mesh.panels};
+    for (const std::string& w : r.warnings) study.warnings.push_back(w);
+  }
+  auto add = [&](const char* name, auto get) {
+    ConvergenceQuantity q;
+    q.name = name;
+    for (std::size_t k = 0; k < 3; ++k) q.values[k] = get(res[k]);
+    if (std::all_of(q.values.begin(), q.values.end(), [](double v) { return std::isfinite(v); })) {
+      q.extrapolation = RichardsonExtrapolate(q.values[0], q.values[1], q.values[2], study.ratio,
+                                              options.assumed_order);
+    } else {
+      q.extrapolation.value = std::numeric_limits<double>::quiet_NaN();
+      q.extrapolation.error_estimate = std::numeric_limits<double>::quiet_NaN();
+      q.extrapolation.note = "undefined on at least one mesh";
+    }
+    study.quantities.push_back(q);
+  };
+  add("CL", [](const PointResult& p) { return p.CL; });
+  add("CD_induced", [](const PointResult& p) { return p.CD_induced; });
+  add("Cm", [](const PointResult& p) { return p.Cm; });
+  add("span_efficiency", [](const PointResult& p) {
+    return p.span_efficiency ? *p.span_efficiency : std::numeric_limits<double>::quiet_NaN();
+  });
+  return study;
+}
+
+Eigen::MatrixXd TrefftzDragMatrix(const Lattice& lat, const WakeGeometry& wake) {
+  // TrefftzDrag gives D_m = -(1/2) g_m (K g)_m, K the kernel matrix of the wake's pairs. With g = 1 + e_j
+  // (no zero entries), (K g)_m = -2 D_m / g_m, so K e_j = K (1 + e_j) - K 1: one call per column.
+  const auto ns = static_cast<Eigen::Index>(lat.strips.size());
+  auto k_times = [&](const std::vector<double>& g) {
+    const std::vector<double> d = TrefftzDrag(lat, g, wake);
+    Eigen::VectorXd kg(ns);
+    for (Eigen::Index m = 0; m < ns; ++m)
+      kg(m) = -2.0 * d[static_cast<std::size_t>(m)] / g[static_cast<std::size_t>(m)];
+    return kg;
+  };
+  const std::vector<double> ones(static_cast<std::size_t>(ns), 1.0);
+  const Eigen::VectorXd k1 = k_times(ones);
+  Eigen::MatrixXd K(ns, ns);
+  for (Eigen::Index j = 0; j < ns; ++j) {
+    std::vector<double> g = ones;
+    g[static_cast<std::size_t>(j)] = 2.0;
+    K.col(j) = k_times(g) - k1;
+  }
+  // D = -(1/2) g' K g = g' Q g with Q the symmetric part of -K/2.
+  return -0.25 * (K + K.transpose());
+}
+
+Eigen::VectorXd TrefftzLiftVector(const Lattice& lat, const WakeGeometry& wake, double alpha_deg) {
+  const double a = alpha_deg * kDegToRad;
+  const Vec3 lift{-std::sin(a), 0.0, std::cos(a)};
+  Eigen::VectorXd l(static_cast<Eigen::Index>(lat.strips.size()));
+  for (std::size_t m = 0; m < lat.strips.size(); ++m)
+    l(static_cast<Eigen::Index>(m)) =
+        Dot(Cross(wake.direction, lat.strips[m].te_right - lat.strips[m].te_left), lift);
+  return l;
+}
+
+Eigen::VectorXd TrefftzRootBendingVector(const Lattice& lat, const WakeGeometry& wake, double alpha_deg,
+                                         int surface) {
+  SKEIN_ASSERT(surface >= 0 && static_cast<std::size_t>(surface) < lat.surfaces.size());
+  const Eigen::VectorXd l = TrefftzLiftVector(lat, wake, alpha_deg);
+  const LatticeSurface& ls = lat.surfaces[static_cast<std::size_t>(surface)];
+  double y_root = std::numeric_limits<double>::infinity();
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m) {
+    y_root = std::min(y_root, std::abs(lat.strips[m].te_left[1]));
+    y_root = std::min(y_root, std::abs(lat.strips[m].te_right[1]));
+  }
+  Eigen::VectorXd b = Eigen::VectorXd::Zero(l.size());
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m) {
+    const double y = lat.strips[m].quarter_chord[1];
+    if (y > 0.0) b(static_cast<Eigen::Index>(m)) = l(static_cast<Eigen::Index>(m)) * (y - y_root);
+  }
+  return b;
+}
+
+std::vector<double> PrescribedLoading(const Lattice& lat, int surface,
+                                      const std::function<double(double)>& shape) {
+  SKEIN_ASSERT(surface >= 0 && static_cast<std::size_t>(surface) < lat.surfaces.size());
+  const LatticeSurface& ls = lat.surfaces[static_cast<std::size_t>(surface)];
+  double semi = 0.0;
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
+    semi = std::max({semi, std::abs(lat.strips[m].te_left[1]), std::abs(lat.strips[m].te_right[1])});
+  SKEIN_ASSERT(semi > 0.0);
+  std::vector<double> g(lat.strips.size(), 0.0);
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
+    g[m] = shape(lat.strips[m].quarter_chord[1] / semi);
+  return g;
+}
+
+std::vector<double> MinimumDragLoading(const Eigen::MatrixXd& Q, const Eigen::VectorXd& lift_vector, double lift,
+                                       const Eigen::VectorXd* bending_vector, double bending,
+                                       const std::vector<int>& strips) {
+  const auto n = static_cast<Eigen::Index>(strips.size());
+  const Eigen::Index nc = bending_vector ? 2 : 1;
+  // minimise g' Q g subject to C g = r:  [2 Q  C'; C  0] [g; lambda] = [0; r].
+  Eigen::MatrixXd kkt = Eigen::MatrixXd::Zero(n + nc, n + nc);
+  Eigen::VectorXd rhs = Eigen::VectorXd::Zero(n + nc);
+  for (Eigen::Index i = 0; i < n; ++i) {
+    const int si = strips[static_cast<std::size_t>(i)];
+    for (Eigen::Index j = 0; j < n; ++j) kkt(i, j) = 2.0 * Q(si, strips[static_cast<std::size_t>(j)]);
+    kkt(i, n) = kkt(n, i) = lift_vector(si);
+    if (bending_vector) kkt(i, n + 1) = kkt(n + 1, i) = (*bending_vector)(si);
+  }
+  rhs(n) = lift;
+  if (bending_vector) rhs(n + 1) = bending;
+  const Eigen::VectorXd x = kkt.fullPivLu().solve(rhs);
+  std::vector<double> g(static_cast<std::size_t>(Q.rows()), 0.0);
+  for (Eigen::Index i = 0; i < n; ++i) g[static_cast<std::size_t>(strips[static_cast<std::size_t>(i)])] = x(i);
+  return g;
+}
+
+}  // namespace skein::study

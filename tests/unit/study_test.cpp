@@ -1,0 +1,180 @@
+// Tests for study.hpp: Richardson extrapolation, mesh scaling and the mesh-convergence study, and the Trefftz
+// plane as a quadratic form.
+#include "skein/study.hpp"
+
+#include <cmath>
+#include <random>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "../support/planforms.hpp"
+#include "skein/loads.hpp"
+#include "skein/run.hpp"
+
+namespace skein {
+namespace {
+
+using study::RichardsonExtrapolate;
+
+// ----- Richardson extrapolation on synthetic sequences f(h) = f0 + C h^p (exact recovery) -----
+
+TEST(Richardson, RecoversLimitAndOrderOfAnExactPowerLaw) {
+  // Published method: L. F. Richardson (1911), "The approximate arithmetical solution by finite differences of
+  // physical problems", Phil. Trans. R. Soc. A 210: f(h) = f0 + C h^p is extrapolated exactly from three
+  // meshes with a constant ratio.
+  for (double p : {1.0, 1.5, 2.0, 3.0}) {
+    for (double ratio : {2.0, 1.5}) {
+      const double f0 = 0.4321, C = -0.37, h = 0.1;
+      auto f = [&](double hh) { return f0 + C * std::pow(hh, p); };
+      const auto e = RichardsonExtrapolate(f(ratio * ratio * h), f(ratio * h), f(h), ratio, 1.0);
+      EXPECT_TRUE(e.order_observed) << "p " << p;
+      EXPECT_NEAR(e.order, p, 1e-9) << "p " << p << " r " << ratio;
+      EXPECT_NEAR(e.value, f0, 1e-12) << "p " << p << " r " << ratio;
+      // Grid convergence index (Roache 1994): 1.25 |f_fine - f0| when the order is observed.
+      EXPECT_NEAR(e.error_estimate, study::kSafetyObserved * std::abs(f(h) - f0), 1e-12);
+      EXPECT_TRUE(e.note.empty());
+    }
+  }
+}
+
+TEST(Richardson, OscillatingSequenceUsesTheAssumedOrderAndSaysSo) {
+  // Coarse 1.10, medium 0.90, fine 1.00: the differences change sign.
+  const auto e = RichardsonExtrapolate(1.10, 0.90, 1.00, 2.0, 1.0);
+  EXPECT_FALSE(e.order_observed);
+  EXPECT_EQ(e.order, 1.0);
+  EXPECT_NEAR(e.value, 1.00 + (1.00 - 0.90) / (2.0 - 1.0), 1e-15);
+  EXPECT_NEAR(e.error_estimate, study::kSafetyAssumed * 0.10, 1e-15);
+  EXPECT_NE(e.note.find("not monotone"), std::string::npos);
+}
+
+TEST(Richardson, ImplausibleObservedOrderFallsBackToAssumed) {
+  // e32 / e21 = 100 gives p = log2(100) = 6.6, outside the trusted range.
+  const auto e = RichardsonExtrapolate(1.0 + 100e-3 + 1e-3, 1.0 + 1e-3, 1.0, 2.0, 2.0);
+  EXPECT_FALSE(e.order_observed);
+  EXPECT_EQ(e.order, 2.0);
+  EXPECT_NEAR(e.value, 1.0 - 1e-3 / 3.0, 1e-13);
+  EXPECT_NE(e.note.find("outside"), std::string::npos);
+}
+
+TEST(Richardson, ConvergedSequenceReturnsTheFineValue) {
+  const auto e = RichardsonExtrapolate(0.7, 0.5, 0.5, 2.0, 1.0);
+  EXPECT_EQ(e.value, 0.5);
+  EXPECT_EQ(e.error_estimate, 0.0);
+  EXPECT_NE(e.note.find("round-off"), std::string::npos);
+}
+
+// ----- Mesh scaling -----
+
+TEST(ScaleMesh, ScalesEveryCountAndRefusesFractions) {
+  Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.5, 5.0, testing::Mesh(4, 12)), {4.0});
+  c.surfaces[0].sections[0].spanwise = 8;
+  const Case d = study::ScaleMesh(c, 2.0);
+  EXPECT_EQ(d.mesh.chordwise, 8);
+  EXPECT_EQ(d.surfaces[0].mesh.chordwise, 8);
+  EXPECT_EQ(d.surfaces[0].mesh.spanwise, 24);
+  EXPECT_EQ(*d.surfaces[0].sections[0].spanwise, 16);
+  const Case h = study::ScaleMesh(c, 0.25);
+  EXPECT_EQ(h.surfaces[0].mesh.chordwise, 1);
+  EXPECT_EQ(h.surfaces[0].mesh.spanwise, 3);
+  EXPECT_THROW(study::ScaleMesh(c, 0.125), InputError);  // 4 / 8 is not a whole count
+}
+
+// ----- The mesh-convergence study on a real case -----
+
+TEST(MeshConvergence, ExtrapolationLiesAlongTheTrendBeyondTheFinestMesh) {
+  // A tapered, swept wing (our own invention) at 4 deg; meshes 2x6, 4x12, 8x24 per half, and a check mesh
+  // 16x48 solved apart. The extrapolated value must continue the trend beyond the finest of the three, and the
+  // next refinement must land between that finest result and the extrapolated value: the extrapolation
+  // predicted both the direction and that the sequence has further to go.
+  const Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 15.0, testing::Mesh(2, 6)), {4.0});
+  study::ConvergenceOptions o;
+  const study::ConvergenceStudy s = study::MeshConvergence(c, o);
+  ASSERT_EQ(s.quantities.size(), 4u);
+  EXPECT_EQ(s.meshes[0].scale, 1.0);
+  EXPECT_EQ(s.meshes[2].scale, 4.0);
+  EXPECT_EQ(s.meshes[2].chordwise, 8);
+  EXPECT_EQ(s.meshes[2].spanwise, 24);
+  EXPECT_EQ(s.meshes[2].panels, 16 * s.meshes[0].panels);
+  const PointResult check = skein::Run(study::ScaleMesh(c, 8.0), {}).points.front();
+  const double check_values[4] = {check.CL, check.CD_induced, check.Cm, *check.span_efficiency};
+  for (std::size_t k = 0; k < 4; ++k) {
+    const auto& q = s.quantities[k];
+    SCOPED_TRACE(q.name);
+    const double fine = q.values[2], medium = q.values[1], coarse = q.values[0];
+    const double step = fine - medium;  // the trend of the sequence at its finest step
+    ASSERT_GT(std::abs(step), 0.0);
+    EXPECT_GT((medium - coarse) * step, 0.0);  // monotone on this wing
+    EXPECT_TRUE(q.extrapolation.order_observed);
+    EXPECT_GT((q.extrapolation.value - fine) * step, 0.0);
+    const double next = check_values[k];
+    EXPECT_GT((next - fine) * step, 0.0);
+    EXPECT_LT(std::abs(next - fine), std::abs(q.extrapolation.value - fine));
+    EXPECT_GT(q.extrapolation.error_estimate, 0.0);
+  }
+}
+
+TEST(MeshConvergence, HalvesTheMeshWhenRefiningWouldBeTooLarge) {
+  const Case c = testing::WingCase(testing::RectangularWing(6.0, 1.0, testing::Mesh(4, 16)), {3.0});
+  study::ConvergenceOptions o;
+  o.max_panels = 600;  // 4x16x2 = 128 panels: x4 (2048) and x2 (512) ... x2 fits, so {1/2, 1, 2}
+  const study::ConvergenceStudy s = study::MeshConvergence(c, o);
+  EXPECT_EQ(s.meshes[0].scale, 0.5);
+  EXPECT_EQ(s.meshes[1].scale, 1.0);
+  EXPECT_EQ(s.meshes[2].scale, 2.0);
+  EXPECT_EQ(s.meshes[2].panels, 512u);
+  o.max_panels = 100;
+  const study::ConvergenceStudy t = study::MeshConvergence(c, o);
+  EXPECT_EQ(t.meshes[2].scale, 1.0);
+  EXPECT_EQ(t.meshes[0].chordwise, 1);
+  EXPECT_FALSE(t.warnings.empty());
+}
+
+TEST(MeshConvergence, RefusesMeshesThatCannotBeNested) {
+  const Case c = testing::WingCase(testing::RectangularWing(6.0, 1.0, testing::Mesh(5, 15)), {3.0});
+  study::ConvergenceOptions o;
+  o.max_panels = 200;  // x4 and x2 too large; 5 and 15 do not halve
+  EXPECT_THROW(study::MeshConvergence(c, o), InputError);
+  o.point = 3;
+  o.max_panels = 100000;
+  EXPECT_THROW(study::MeshConvergence(c, o), InputError);  // one flight point only
+}
+
+// ----- The Trefftz plane as a quadratic form -----
+
+TEST(TrefftzForm, QuadraticFormEqualsTheSumOfStripDrags) {
+  const Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 15.0, testing::Mesh(2, 10)), {4.0});
+  const Lattice lat = BuildLattice(c);
+  const WakeGeometry wake = WakeFor(c, 4.0, 0.0);
+  const Eigen::MatrixXd Q = study::TrefftzDragMatrix(lat, wake);
+  std::mt19937 rng(7);
+  std::uniform_real_distribution<double> u(-1.0, 1.0);
+  for (int trial = 0; trial < 5; ++trial) {
+    std::vector<double> g(lat.strips.size());
+    Eigen::VectorXd gv(static_cast<Eigen::Index>(g.size()));
+    for (std::size_t m = 0; m < g.size(); ++m) gv(static_cast<Eigen::Index>(m)) = g[m] = u(rng);
+    double d = 0.0;
+    for (double dm : TrefftzDrag(lat, g, wake)) d += dm;
+    EXPECT_NEAR(gv.dot(Q * gv), d, 1e-12 * std::abs(d) + 1e-15);
+  }
+  EXPECT_LT((Q - Q.transpose()).norm(), 1e-14 * Q.norm());
+}
+
+TEST(TrefftzForm, FormAgreesWithTheSolvedDragAndLift) {
+  // The solve's CD_induced is the same form evaluated at its strip circulations; its far-field lift agrees
+  // with the near-field CL to a fraction of a percent on a planar wing with an x-axis wake.
+  const Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 15.0, testing::Mesh(4, 16)), {4.0});
+  const Results r = skein::Run(c, {});
+  const Lattice lat = BuildLattice(c);
+  const WakeGeometry wake = WakeFor(c, 4.0, 0.0);
+  Eigen::VectorXd g(static_cast<Eigen::Index>(lat.strips.size()));
+  for (std::size_t m = 0; m < lat.strips.size(); ++m)
+    g(static_cast<Eigen::Index>(m)) = r.points[0].surfaces[0].strips.gamma[m];
+  const double qs = 0.5 * c.reference.area;
+  EXPECT_NEAR(g.dot(study::TrefftzDragMatrix(lat, wake) * g) / qs, r.points[0].CD_induced,
+              1e-12 * r.points[0].CD_induced);
+  EXPECT_NEAR(study::TrefftzLiftVector(lat, wake, 4.0).dot(g) / qs, r.points[0].CL, 5e-3 * r.points[0].CL);
+}
+
+}  // namespace
+}  // namespace skein
