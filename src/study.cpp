@@ -221,26 +221,41 @@ std::vector<double> PrescribedLoading(const Lattice& lat, int surface,
   return g;
 }
 
-std::vector<double> MinimumDragLoading(const Eigen::MatrixXd& Q, const Eigen::VectorXd& lift_vector, double lift,
-                                       const Eigen::VectorXd* bending_vector, double bending,
-                                       const std::vector<int>& strips) {
-  const auto n = static_cast<Eigen::Index>(strips.size());
-  const Eigen::Index nc = bending_vector ? 2 : 1;
-  // minimise g' Q g subject to C g = r:  [2 Q  C'; C  0] [g; lambda] = [0; r].
-  Eigen::MatrixXd kkt = Eigen::MatrixXd::Zero(n + nc, n + nc);
-  Eigen::VectorXd rhs = Eigen::VectorXd::Zero(n + nc);
-  for (Eigen::Index i = 0; i < n; ++i) {
-    const int si = strips[static_cast<std::size_t>(i)];
-    for (Eigen::Index j = 0; j < n; ++j) kkt(i, j) = 2.0 * Q(si, strips[static_cast<std::size_t>(j)]);
-    kkt(i, n) = kkt(n, i) = lift_vector(si);
-    if (bending_vector) kkt(i, n + 1) = kkt(n + 1, i) = (*bending_vector)(si);
+std::vector<double> MinimumDragLoading(const Lattice& lat, int surface, const Eigen::MatrixXd& Q,
+                                       const Eigen::VectorXd& lift_vector, double lift,
+                                       const Eigen::VectorXd* bending_vector, double bending) {
+  SKEIN_ASSERT(surface >= 0 && static_cast<std::size_t>(surface) < lat.surfaces.size());
+  const LatticeSurface& ls = lat.surfaces[static_cast<std::size_t>(surface)];
+  const auto ns = static_cast<Eigen::Index>(lat.strips.size());
+  // The unknowns: the surface's given strips; P maps them onto every strip (a mirrored strip copies its own).
+  std::vector<std::size_t> vars;
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
+    if (lat.strips[m].mirror_of < 0) vars.push_back(m);
+  const auto n = static_cast<Eigen::Index>(vars.size());
+  Eigen::MatrixXd P = Eigen::MatrixXd::Zero(ns, n);
+  for (Eigen::Index k = 0; k < n; ++k) P(static_cast<Eigen::Index>(vars[static_cast<std::size_t>(k)]), k) = 1.0;
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m) {
+    const int src = lat.strips[m].mirror_of;
+    if (src < 0) continue;
+    const auto it = std::find(vars.begin(), vars.end(), static_cast<std::size_t>(src));
+    SKEIN_ASSERT(it != vars.end());
+    P(static_cast<Eigen::Index>(m), it - vars.begin()) = 1.0;
   }
+  const Eigen::Index nc = bending_vector ? 2 : 1;
+  Eigen::MatrixXd C(nc, n);
+  C.row(0) = lift_vector.transpose() * P;
+  if (bending_vector) C.row(1) = bending_vector->transpose() * P;
+  // minimise x' (P'QP) x subject to C x = r:  [2 P'QP  C'; C  0] [x; lambda] = [0; r].
+  Eigen::MatrixXd kkt = Eigen::MatrixXd::Zero(n + nc, n + nc);
+  kkt.topLeftCorner(n, n) = 2.0 * P.transpose() * Q * P;
+  kkt.topRightCorner(n, nc) = C.transpose();
+  kkt.bottomLeftCorner(nc, n) = C;
+  Eigen::VectorXd rhs = Eigen::VectorXd::Zero(n + nc);
   rhs(n) = lift;
   if (bending_vector) rhs(n + 1) = bending;
   const Eigen::VectorXd x = kkt.fullPivLu().solve(rhs);
-  std::vector<double> g(static_cast<std::size_t>(Q.rows()), 0.0);
-  for (Eigen::Index i = 0; i < n; ++i) g[static_cast<std::size_t>(strips[static_cast<std::size_t>(i)])] = x(i);
-  return g;
+  const Eigen::VectorXd g = P * x.head(n);
+  return std::vector<double>(g.data(), g.data() + g.size());
 }
 
 }  // namespace skein::study

@@ -125,10 +125,12 @@ Eigen::VectorXd TrefftzRootBendingVector(const Lattice& lat, const WakeGeometry&
 std::vector<double> PrescribedLoading(const Lattice& lat, int surface, const std::function<double(double)>& shape);
 
 /// The strip circulations of least induced drag g' Q g at lift `lift` (lift_vector . g = lift) and, when
-/// given, at root bending moment `bending` (bending_vector . g = bending), over the strips of surface
-/// `surface` (others carry none). Solved exactly: one linear KKT system.
-std::vector<double> MinimumDragLoading(const Eigen::MatrixXd& Q, const Eigen::VectorXd& lift_vector, double lift,
-                                       const Eigen::VectorXd* bending_vector, double bending,
-                                       const std::vector<int>& strips);
+/// given, at root bending moment `bending` (bending_vector . g = bending), carried by surface `surface` alone
+/// (other strips carry none). On a symmetric surface the loading is held symmetric (each mirrored strip
+/// carries its given strip's circulation); otherwise a bending constraint measured on one half could be met by
+/// loading the other. Solved exactly: one linear KKT system.
+std::vector<double> MinimumDragLoading(const Lattice& lat, int surface, const Eigen::MatrixXd& Q,
+                                       const Eigen::VectorXd& lift_vector, double lift,
+                                       const Eigen::VectorXd* bending_vector, double bending);
 
 }  // namespace skein::study
