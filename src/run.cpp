@@ -10,6 +10,7 @@
 #include <omp.h>
 #include <unistd.h>
 
+#include "skein/structural.hpp"
 #include "vec3.hpp"
 
 namespace skein {
@@ -118,6 +119,7 @@ Results Run(const Case& c, const RunOptions& options) {
       fp.rates = c.flight.rates;
       fp.speed = c.flight.speed;
       res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
+      if (c.flight.speed_given) AddStructuralLoads(lat, c.flight.density, c.flight.speed, res.points[p]);
     }
     res.times.loads += Since(t0);
   }

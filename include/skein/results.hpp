@@ -28,10 +28,31 @@ struct StripLoads {
   std::vector<double> cl_c_over_cref;  ///< span loading cl c / c_ref
 };
 
+/// Dimensional shear force and bending moment along one half of a surface (structural.hpp), from the strips'
+/// normal forces at the case's speed and density. Stations run from the root (first) to the tip (last), at the
+/// strip edges; the tip values are zero.
+struct StructuralLoads {
+  std::vector<double> station;     ///< m, distance from the root along the span, in the yz plane
+  std::vector<double> shear_N;     ///< N, normal force of everything outboard, along the station's normal
+  std::vector<double> bending_Nm;  ///< N m, moment of everything outboard about the x-parallel axis there
+  double root_shear_N = 0.0, root_bending_Nm = 0.0;
+  /// The mirrored (left) half of a symmetric surface, which differs in sideslip, roll or with an aileron.
+  std::optional<double> mirrored_root_shear_N, mirrored_root_bending_Nm;
+};
+
 struct SurfaceLoads {
   std::string name;
   double CL = 0.0, CD_induced = 0.0, CD_induced_nearfield = 0.0, CY = 0.0, Cl = 0.0, Cm = 0.0, Cn = 0.0;
   StripLoads strips;
+  std::optional<StructuralLoads> structural;  ///< present when the case gives a speed
+  /// Downwash from the surfaces ahead: the angle (deg) by which the velocity they induce at this surface's
+  /// control points turns the local flow down, away from the freestream, in the plane of the drag and lift
+  /// directions, averaged over the control points weighted by panel area; and its derivative with respect to
+  /// alpha (d epsilon / d alpha, per radian per radian). "Ahead" means an area-weighted mean quarter-chord x
+  /// smaller than this surface's. Both are zero, and `downwash_from` empty, when no surface is ahead.
+  double downwash_deg = 0.0;
+  double downwash_gradient = 0.0;
+  std::vector<std::string> downwash_from;  ///< names of the surfaces ahead, in case order
 };
 
 /// One flight point of a sweep.

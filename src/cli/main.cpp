@@ -128,6 +128,7 @@ int RunSolve(const SolveArgs& a) {
     if (ec) throw OutputError(fmt::format("cannot create directory {}: {}", a.csv_dir, ec.message()));
     out.Add(fs::path(a.csv_dir) / "points.csv", [&](std::ostream& f) { skein::report::WritePointsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
+    out.Add(fs::path(a.csv_dir) / "structural.csv", [&](std::ostream& f) { skein::report::WriteStructuralCsv(r, f); });
   }
   out.Commit();
   r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
@@ -151,7 +152,7 @@ int main(int argc, char** argv) {
   solve->add_option("CASE", a.case_path, "case file (TOML)")->required();
   solve->add_option("--json", a.json, "write the results document to FILE ('-' for standard output)")
       ->type_name("FILE");
-  solve->add_option("--csv", a.csv_dir, "write points.csv and strips.csv into DIR")->type_name("DIR");
+  solve->add_option("--csv", a.csv_dir, "write points.csv, strips.csv and structural.csv into DIR")->type_name("DIR");
   solve->add_flag("--echo", a.echo, "print the case as read, every default filled in, and stop");
   solve->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");

@@ -53,4 +53,16 @@ void WriteStripsCsv(const Results& r, std::ostream& out) {
             << ',' << Cell(s.strips.cl_c_over_cref[k]) << '\n';
 }
 
+void WriteStructuralCsv(const Results& r, std::ostream& out) {
+  out << "point,surface,station,shear_N,bending_Nm\n";
+  for (std::size_t i = 0; i < r.points.size(); ++i)
+    for (const SurfaceLoads& s : r.points[i].surfaces) {
+      if (!s.structural) continue;
+      const StructuralLoads& sv = *s.structural;
+      for (std::size_t k = 0; k < sv.station.size(); ++k)
+        out << i << ',' << Text(s.name) << ',' << Cell(sv.station[k]) << ',' << Cell(sv.shear_N[k]) << ','
+            << Cell(sv.bending_Nm[k]) << '\n';
+    }
+}
+
 }  // namespace skein::report

@@ -112,12 +112,29 @@ void WriteJson(const Results& r, std::ostream& out) {
       o["Cl"] = w.Num(s.Cl, sat + ".Cl");
       o["Cm"] = w.Num(s.Cm, sat + ".Cm");
       o["Cn"] = w.Num(s.Cn, sat + ".Cn");
+      o["downwash_deg"] = w.Num(s.downwash_deg, sat + ".downwash_deg");
+      o["downwash_gradient"] = w.Num(s.downwash_gradient, sat + ".downwash_gradient");
+      o["downwash_from"] = s.downwash_from;
       o["strips"] = {{"y", w.Array(s.strips.y, sat + ".strips.y")},
                      {"z", w.Array(s.strips.z, sat + ".strips.z")},
                      {"chord", w.Array(s.strips.chord, sat + ".strips.chord")},
                      {"gamma", w.Array(s.strips.gamma, sat + ".strips.gamma")},
                      {"cl", w.Array(s.strips.cl, sat + ".strips.cl")},
                      {"cl_c_over_cref", w.Array(s.strips.cl_c_over_cref, sat + ".strips.cl_c_over_cref")}};
+      if (s.structural) {
+        const StructuralLoads& sv = *s.structural;
+        ordered_json st = {{"station", w.Array(sv.station, sat + ".structural.station")},
+                           {"shear_N", w.Array(sv.shear_N, sat + ".structural.shear_N")},
+                           {"bending_Nm", w.Array(sv.bending_Nm, sat + ".structural.bending_Nm")},
+                           {"root_shear_N", w.Num(sv.root_shear_N, sat + ".structural.root_shear_N")},
+                           {"root_bending_Nm", w.Num(sv.root_bending_Nm, sat + ".structural.root_bending_Nm")}};
+        if (sv.mirrored_root_shear_N && sv.mirrored_root_bending_Nm) {
+          st["mirrored_root_shear_N"] = w.Num(*sv.mirrored_root_shear_N, sat + ".structural.mirrored_root_shear_N");
+          st["mirrored_root_bending_Nm"] =
+              w.Num(*sv.mirrored_root_bending_Nm, sat + ".structural.mirrored_root_bending_Nm");
+        }
+        o["structural"] = st;
+      }
       js.push_back(o);
     }
     jp["surfaces"] = js;

@@ -85,6 +85,36 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
       }
     }
   }
+  if (!r.points.empty()) {
+    bool header = false;
+    const PointResult& p = r.points.front();
+    for (const SurfaceLoads& s : p.surfaces) {
+      if (!s.structural) continue;
+      const StructuralLoads& sv = *s.structural;
+      if (!header) {
+        out << fmt::format("\nStructural loads at alpha {:.2f} deg (given half; every station in --json/--csv)\n",
+                           p.alpha_deg);
+        out << "  surface         root shear N  root bending N m  at 1/4, 1/2, 3/4 of the span: bending N m\n";
+        header = true;
+      }
+      const auto at = [&](double fraction) {  // bending at the station nearest the fraction of the span
+        const double target = fraction * sv.station.back();
+        std::size_t best = 0;
+        for (std::size_t k = 0; k < sv.station.size(); ++k)
+          if (std::abs(sv.station[k] - target) < std::abs(sv.station[best] - target)) best = k;
+        return sv.bending_Nm[best];
+      };
+      out << fmt::format("  {:<14} {:>13.5g} {:>17.5g}  {:>11.4g} {:>11.4g} {:>11.4g}", s.name, sv.root_shear_N,
+                         sv.root_bending_Nm, at(0.25), at(0.5), at(0.75));
+      if (sv.mirrored_root_bending_Nm &&
+          std::abs(*sv.mirrored_root_bending_Nm - sv.root_bending_Nm) > 1e-9 * std::abs(sv.root_bending_Nm))
+        out << fmt::format("  (left half: {:.5g} N, {:.5g} N m)", *sv.mirrored_root_shear_N, *sv.mirrored_root_bending_Nm);
+      out << '\n';
+    }
+    if (header)
+      out << "  (from the inviscid strip normal forces; limit and ultimate loads need load factors, gusts and a\n"
+             "   structural safety factor from the applicable airworthiness rules)\n";
+  }
   out << "\nCautions: conceptual-design estimates from linear, inviscid theory; no stall, separation or viscous\n"
          "drag. Verify by test, and follow the applicable airworthiness rules and licensed engineers.\n";
   out << fmt::format("Time {:.3f} s (mesh {:.3f}, assemble {:.3f}, factorise {:.3f}, solve {:.3f}, loads {:.3f}), {} thread{}\n",

@@ -10,5 +10,8 @@ namespace skein::report {
 
 void WritePointsCsv(const Results& r, std::ostream& out);
 void WriteStripsCsv(const Results& r, std::ostream& out);
+/// structural.csv: one row per station of each surface's given half (point, surface, station, shear_N,
+/// bending_Nm), for cases that give a speed; only the header otherwise.
+void WriteStructuralCsv(const Results& r, std::ostream& out);
 
 }  // namespace skein::report
