@@ -61,7 +61,15 @@ inline void SourceVelocity(const Source& s, double px, double py, double pz, dou
 bool NormalsMirrorSymmetric(const Lattice& lat) {
   for (std::size_t i = 0; i < lat.panels(); ++i) {
     const int m = lat.mirror_of[i];
-    if (m < 0) continue;
+    if (m < 0) {
+      // A panel on the plane y = 0 is its own image, with the reflected normal (n_x, -n_y, n_z); that is the
+      // same boundary condition only if it equals -n, i.e. the normal is purely along y. A deflected rudder or
+      // a cambered centre-line fin turns it, and the mirror image is then a different configuration.
+      if (lat.surfaces[static_cast<std::size_t>(lat.surface[i])].on_symmetry_plane &&
+          (std::abs(lat.normal.x[i]) > 1e-13 || std::abs(lat.normal.z[i]) > 1e-13))
+        return false;
+      continue;
+    }
     const auto g = static_cast<std::size_t>(m);
     if (std::abs(lat.normal.x[i] - lat.normal.x[g]) > 1e-13 || std::abs(lat.normal.y[i] + lat.normal.y[g]) > 1e-13 ||
         std::abs(lat.normal.z[i] - lat.normal.z[g]) > 1e-13)

@@ -2,6 +2,7 @@
 #include "skein/loads.hpp"
 
 #include <cmath>
+#include <string>
 
 #include "skein/biot_savart.hpp"
 #include "vec3.hpp"
@@ -45,7 +46,65 @@ Coefficients ToCoefficients(const Wrench& w, const Axes& ax, const Reference& re
           Dot(w.moment, ax.pitch) / (qs * ref.chord), Dot(w.moment, ax.yaw) / (qs * ref.span)};
 }
 
+/// Fills in each surface's downwash from the surfaces ahead of it (results.hpp, SurfaceLoads). At control
+/// point i of surface S, v_i = sum over the surfaces T ahead of S and the basis fields k of c_k v_Tk(P_i); the
+/// flow there turns down by
+///     eps_i = atan2(N, D),  N = -(v_i . l),  D = 1 + v_i . d     (V = 1, l lift and d drag direction),
+/// and d eps_i / d alpha = (D dN - N dD) / (N^2 + D^2), with dN = -(dv . l + v . dl), dD = dv . d + v . dd,
+/// dv = sum dc_k/d alpha v_Tk and dl, dd the derivatives of the axes (the wake held in place, as for every
+/// derivative). Averages are weighted by panel area.
+void AddDownwash(const Lattice& lat, const BasisSolution& basis, const std::array<double, kBasisSize>& c,
+                 const std::array<double, kBasisSize>& dc_dalpha, const Axes& ax, double alpha, double beta,
+                 std::vector<SurfaceLoads>& surfaces) {
+  const auto ahead = SurfacesAhead(lat);
+  const Vec3 dlift{-std::cos(alpha), 0.0, -std::sin(alpha)};
+  const Vec3 ddrag{-std::sin(alpha) * std::cos(beta), 0.0, std::cos(alpha) * std::cos(beta)};
+  const InducedVelocity& cv = basis.control_point_velocity;
+  for (std::size_t s = 0; s < lat.surfaces.size(); ++s) {
+    if (ahead[s].empty()) continue;
+    SKEIN_ASSERT(cv.u.cols() == static_cast<Eigen::Index>(kBasisSize * lat.surfaces.size()));
+    const LatticeSurface& ls = lat.surfaces[s];
+    double area = 0.0, eps = 0.0, deps = 0.0;
+    for (std::size_t i = ls.first_panel; i < ls.first_panel + ls.panels; ++i) {
+      const auto ii = static_cast<Eigen::Index>(i);
+      Vec3 v{0.0, 0.0, 0.0}, dv{0.0, 0.0, 0.0};
+      for (int t : ahead[s])
+        for (int k = 0; k < kBasisSize; ++k) {
+          const auto col = static_cast<Eigen::Index>(kBasisSize * t + k);
+          const Vec3 vk{cv.u(ii, col), cv.v(ii, col), cv.w(ii, col)};
+          v = v + c[static_cast<std::size_t>(k)] * vk;
+          dv = dv + dc_dalpha[static_cast<std::size_t>(k)] * vk;
+        }
+      const double num = -Dot(v, ax.lift), den = 1.0 + Dot(v, ax.drag);
+      const double dnum = -(Dot(dv, ax.lift) + Dot(v, dlift)), dden = Dot(dv, ax.drag) + Dot(v, ddrag);
+      eps += lat.area[i] * std::atan2(num, den);
+      deps += lat.area[i] * (den * dnum - num * dden) / (num * num + den * den);
+      area += lat.area[i];
+    }
+    SurfaceLoads& sl = surfaces[s];
+    sl.downwash_deg = eps / area / kDegToRad;
+    sl.downwash_gradient = deps / area;
+    for (int t : ahead[s]) sl.downwash_from.push_back(lat.surfaces[static_cast<std::size_t>(t)].name);
+  }
+}
+
 }  // namespace
+
+std::vector<std::vector<int>> SurfacesAhead(const Lattice& lat) {
+  const std::size_t ns = lat.surfaces.size();
+  std::vector<double> x_mean(ns, 0.0), area(ns, 0.0);
+  for (std::size_t i = 0; i < lat.panels(); ++i) {
+    const auto s = static_cast<std::size_t>(lat.surface[i]);
+    x_mean[s] += lat.area[i] * 0.5 * (lat.a.x[i] + lat.b.x[i]);
+    area[s] += lat.area[i];
+  }
+  for (std::size_t s = 0; s < ns; ++s) x_mean[s] /= area[s];
+  std::vector<std::vector<int>> ahead(ns);
+  for (std::size_t s = 0; s < ns; ++s)
+    for (std::size_t t = 0; t < ns; ++t)
+      if (t != s && x_mean[t] < x_mean[s]) ahead[s].push_back(static_cast<int>(t));
+  return ahead;
+}
 
 std::array<double, kBasisSize> FlowParameters(const FlightPoint& fp) {
   const double a = fp.alpha_deg * kDegToRad, b = fp.beta_deg * kDegToRad;
@@ -194,12 +253,14 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
       {"q", {0.0, 0.0, 0.0, 0.0, qc, 0.0}, zero, zero, zero, zero, zero},
       {"r", {0.0, 0.0, 0.0, sa * pb, 0.0, -ca * pb}, zero, zero, zero, zero, zero},
   }};
+  double cz_alpha = 0.0;  // d(F . e_z)/d alpha / (q S): the force normal to the x axis, for the neutral point
   for (const Variable& var : vars) {
     Wrench dw;
     for (std::size_t k = 0; k < kBasisSize; ++k) {
       dw.force = dw.force + var.dc[k] * d_total[k].force;
       dw.moment = dw.moment + var.dc[k] * d_total[k].moment;
     }
+    if (std::string(var.name) == "alpha") cz_alpha = dw.force[2] / qs;
     const double dCL = (Dot(dw.force, ax.lift) + Dot(total.force, var.dlift)) / qs;
     const double dCY = (Dot(dw.force, ax.side) + Dot(total.force, var.dside)) / qs;
     const double dCl = (Dot(dw.moment, ax.roll) + Dot(total.moment, var.droll)) / (qs * ref.span);
@@ -222,13 +283,18 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
     nv.Set("Cn", dc.Cn);
     out.control_derivatives.emplace_back(lat.controls[m].name, nv);
   }
-  const double cla = *out.derivatives.Get("CL_alpha"), cma = *out.derivatives.Get("Cm_alpha");
-  if (std::abs(cla) > 1e-12) {
-    const double x_np = r_ref[0] - ref.chord * cma / cla;
+  // Neutral point: the point on the line through the moment point parallel to x about which the pitching
+  // moment does not change with alpha. Moving the moment point by dx adds dx F_z to M_y, so
+  //     x_np = x_ref - c_ref Cm_alpha / CZ_alpha,   CZ_alpha = d(F . e_z)/d alpha / (q S),
+  // which is independent of where along x (or y) the moment point sits. CZ_alpha = CL_alpha cos(alpha)
+  // - CL sin(alpha) + (drag terms) is conventions.md's CL_alpha to first order in alpha.
+  const double cma = *out.derivatives.Get("Cm_alpha");
+  if (std::abs(cz_alpha) > 1e-12) {
+    const double x_np = r_ref[0] - ref.chord * cma / cz_alpha;
     out.neutral_point = Vec3{x_np, r_ref[1], r_ref[2]};
     out.static_margin = (x_np - r_ref[0]) / ref.chord;
   } else {
-    out.warnings.push_back("neutral point is undefined: CL_alpha is zero");
+    out.warnings.push_back("neutral point is undefined: the normal force does not change with alpha");
   }
 
   // Surfaces and their strips.
@@ -256,6 +322,7 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
     }
     out.surfaces.push_back(std::move(sl));
   }
+  AddDownwash(lat, basis, c, vars[0].dc, ax, alpha, beta, out.surfaces);
   return out;
 }
 

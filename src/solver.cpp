@@ -8,6 +8,7 @@
 
 #include <chrono>
 #include <cmath>
+#include <memory>
 
 #include <Eigen/LU>
 #include <fmt/format.h>
@@ -101,44 +102,52 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   out.seconds_assemble = Since(t0);
 
   // The right-hand side is the physical onset flow through the physical normals.
-  const Eigen::MatrixXd rhs = BasisRightHandSides(physical, moment_point);
+  Eigen::MatrixXd rhs = BasisRightHandSides(physical, moment_point);
   const Eigen::Index ncols = rhs.cols();
   out.gamma = Eigen::MatrixXd::Zero(rhs.rows(), ncols);
 
-  for (std::size_t l = 0; l < out.layouts.size(); ++l) {
-    const SystemLayout& lay = out.layouts[l];
-    const auto m = static_cast<Eigen::Index>(lay.panel.size());
-    out.unknowns = std::max(out.unknowns, lay.panel.size());
-    if (m == 0) continue;
-    // Right-hand side of this system: the symmetric or antisymmetric part of the full one.
-    Eigen::MatrixXd b(m, ncols);
-    for (Eigen::Index i = 0; i < m; ++i) {
-      const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
-      const int img = lay.image[static_cast<std::size_t>(i)];
-      if (lay.kind == SystemLayout::Kind::full || img < 0) {
-        b.row(i) = rhs.row(p);
-      } else {
-        const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
-        b.row(i) = 0.5 * (rhs.row(p) + s * rhs.row(img));
+  // Factorise each system once (in place: no second copy of the matrix), then solve column blocks with it.
+  using InPlaceLU = Eigen::PartialPivLU<Eigen::Ref<Eigen::MatrixXd>>;
+  std::vector<std::unique_ptr<InPlaceLU>> lus(out.layouts.size());
+  auto solve_columns = [&](Eigen::Index first, Eigen::Index count) {
+    for (std::size_t l = 0; l < out.layouts.size(); ++l) {
+      const SystemLayout& lay = out.layouts[l];
+      const auto m = static_cast<Eigen::Index>(lay.panel.size());
+      out.unknowns = std::max(out.unknowns, lay.panel.size());
+      if (m == 0) continue;
+      // Right-hand side of this system: the symmetric or antisymmetric part of the full one.
+      Eigen::MatrixXd b(m, count);
+      for (Eigen::Index i = 0; i < m; ++i) {
+        const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
+        const int img = lay.image[static_cast<std::size_t>(i)];
+        if (lay.kind == SystemLayout::Kind::full || img < 0) {
+          b.row(i) = rhs.block(p, first, 1, count);
+        } else {
+          const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
+          b.row(i) = 0.5 * (rhs.block(p, first, 1, count) + s * rhs.block(img, first, 1, count));
+        }
+      }
+      if (!lus[l]) {
+        t0 = Clock::now();
+        lus[l] = std::make_unique<InPlaceLU>(mats[l]);
+        out.seconds_factorise += Since(t0);
+        out.rcond = std::min(out.rcond, lus[l]->rcond());
+      }
+      t0 = Clock::now();
+      const Eigen::MatrixXd x = lus[l]->solve(b);
+      out.seconds_solve += Since(t0);
+      for (Eigen::Index i = 0; i < m; ++i) {
+        const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
+        const int img = lay.image[static_cast<std::size_t>(i)];
+        out.gamma.block(p, first, 1, count) += x.row(i);
+        if (lay.kind != SystemLayout::Kind::full && img >= 0) {
+          const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
+          out.gamma.block(img, first, 1, count) += s * x.row(i);
+        }
       }
     }
-    t0 = Clock::now();
-    Eigen::PartialPivLU<Eigen::Ref<Eigen::MatrixXd>> lu(mats[l]);  // in place: no second copy of the matrix
-    out.seconds_factorise += Since(t0);
-    out.rcond = std::min(out.rcond, lu.rcond());
-    t0 = Clock::now();
-    const Eigen::MatrixXd x = lu.solve(b);
-    out.seconds_solve += Since(t0);
-    for (Eigen::Index i = 0; i < m; ++i) {
-      const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
-      const int img = lay.image[static_cast<std::size_t>(i)];
-      out.gamma.row(p) += x.row(i);
-      if (lay.kind != SystemLayout::Kind::full && img >= 0) {
-        const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
-        out.gamma.row(img) += s * x.row(i);
-      }
-    }
-  }
+  };
+  solve_columns(0, kBasisSize);
   if (!(out.rcond >= kSingularRcond)) {
     out.status = SolveStatus::singular;
     out.message = fmt::format(
@@ -146,6 +155,45 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
         "surfaces, degenerate panels or a control point lying on a vortex line",
         out.rcond);
     return out;
+  }
+
+  // Velocities induced at the control points by each surface for the six basis columns (the downwash one
+  // surface sees from another), and what the controls need: a deflection turns the normals, A_ij = n_i . v_j
+  // changes with them, and differentiating n_i . (V_onset + sum_j Gamma_j v_j) = 0 gives
+  //     A dGamma/d delta = -(d n_i / d delta) . (V_onset(P_i) + v_induced(P_i)),
+  // the whole local velocity, not the onset alone (in the plane of a flat panel the induced part vanishes, so
+  // it matters on dihedral, non-planar and deflected configurations).
+  const std::size_t nsurf = physical.surfaces.size();
+  const std::size_t ncontrols = physical.controls.size();
+  if (nsurf > 1 || ncontrols > 0) {
+    t0 = Clock::now();
+    const auto n = static_cast<Eigen::Index>(physical.panels());
+    Eigen::MatrixXd by_surface = Eigen::MatrixXd::Zero(n, static_cast<Eigen::Index>(kBasisSize * nsurf));
+    for (Eigen::Index i = 0; i < n; ++i) {
+      const auto s = static_cast<Eigen::Index>(physical.surface[static_cast<std::size_t>(i)]);
+      by_surface.block(i, kBasisSize * s, 1, kBasisSize) = out.gamma.block(i, 0, 1, kBasisSize);
+    }
+    out.control_point_velocity = InducedVelocityAt(lat, lat.control, by_surface, swake);
+    out.control_point_velocity.u /= beta;  // back to physical axes, as for the bound velocities below
+    out.seconds_velocity += Since(t0);
+  }
+  if (ncontrols > 0) {
+    for (Eigen::Index i = 0; i < rhs.rows(); ++i) {
+      const auto p = static_cast<std::size_t>(i);
+      const int m = physical.control_of[p];
+      if (m < 0) continue;
+      const Vec3 dn = physical.normal_rate[p];
+      for (int k = 0; k < kBasisSize; ++k) {
+        Vec3 v{0.0, 0.0, 0.0};
+        for (std::size_t s = 0; s < nsurf; ++s) {
+          const auto col = static_cast<Eigen::Index>(kBasisSize * s) + k;
+          v = v + Vec3{out.control_point_velocity.u(i, col), out.control_point_velocity.v(i, col),
+                       out.control_point_velocity.w(i, col)};
+        }
+        rhs(i, kBasisSize * (1 + m) + k) -= Dot(dn, v);
+      }
+    }
+    solve_columns(kBasisSize, ncols - kBasisSize);
   }
   if (!out.gamma.allFinite()) {
     out.status = SolveStatus::non_finite;
@@ -169,7 +217,7 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   }
   out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, swake);
   out.bound_velocity.u /= beta;  // u = d(phi)/dx = (d(phi)/dx') / beta
-  out.seconds_velocity = Since(t0);
+  out.seconds_velocity += Since(t0);
   return out;
 }
 

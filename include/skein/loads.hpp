@@ -12,6 +12,8 @@
 // with alpha and beta as conventions.md defines them (the wake is held in place).
 #pragma once
 
+#include <vector>
+
 #include "skein/case.hpp"
 #include "skein/lattice.hpp"
 #include "skein/results.hpp"
@@ -32,6 +34,10 @@ std::array<double, kBasisSize> FlowParameters(const FlightPoint& fp);
 /// D_m = -(1/2) Gamma_m w(P_m) . (d x (TB_m - TA_m)). The sum over strips is the total.
 std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& strip_gamma,
                                 const WakeGeometry& wake);
+
+/// For each surface, the surfaces "ahead" of it whose downwash it reports (SurfaceLoads::downwash_deg): those
+/// whose area-weighted mean bound-vortex x is smaller (further forward). Indices into Lattice::surfaces.
+std::vector<std::vector<int>> SurfacesAhead(const Lattice& lat);
 
 /// Loads, coefficients and derivatives of one flight point.
 PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSolution& basis,

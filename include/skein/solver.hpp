@@ -52,6 +52,10 @@ struct BasisSolution {
   /// the derivative of the basis circulations with respect to that control's deflection, per radian).
   Eigen::MatrixXd gamma;  ///< panels x columns
   InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
+  /// Velocity induced at the control points by each surface alone, for the six basis columns: column
+  /// 6 s + k holds surface s's share of basis field k (panels x 6 surfaces). Empty for a single surface
+  /// without controls. The downwash a surface sees from the others is a sum of these blocks.
+  InducedVelocity control_point_velocity;
   double rcond = 1.0;   ///< smallest reciprocal condition estimate (1-norm) of the systems factorised
   SolveStatus status = SolveStatus::ok;
   std::string message;  ///< what went wrong, naming the likely cause, when status != ok
@@ -63,7 +67,8 @@ struct BasisSolution {
 Vec3 BasisOnset(int k, const Vec3& r, const Vec3& r_ref);
 
 /// Right-hand sides for the flow basis and the controls on the full lattice: panels x (6 + 6 controls),
-/// b_ik = -e_k(P_i) . n_i, and for control m: -e_k(P_i) . (d n_i / d delta_m).
+/// b_ik = -e_k(P_i) . n_i, and for control m the onset part -e_k(P_i) . (d n_i / d delta_m) of its columns
+/// (SolveBasis adds the induced part, -(d n_i / d delta_m) . v_k(P_i), once the basis columns are known).
 Eigen::MatrixXd BasisRightHandSides(const Lattice& lat, const Vec3& moment_point);
 
 /// The lattice of the Prandtl-Glauert (Goethert) analogy: every x coordinate divided by beta = sqrt(1 - M^2),
