@@ -118,6 +118,27 @@ TEST(HalfModel, RunGivesTheSameResultsWithAndWithoutIt) {
   }
 }
 
+TEST(HalfModel, ACamberedCentreLineFinIsNotItsOwnMirrorImage) {
+  // A fin on y = 0 enters the antisymmetric system as its own image, which needs its normal purely along y.
+  // With camber (or a deflected rudder) the normal turns, the mirrored aircraft is a different one, and a
+  // split would drop the fin's side force in symmetric flight. The answer must be the full model's.
+  Case c = testing::WingCase(AwkwardWing(WakeDirection::x_axis), {4.0});
+  Surface fin;
+  fin.name = "fin";
+  fin.symmetric = false;
+  fin.mesh = Mesh(4, 4, Spacing::cosine, Spacing::cosine, WakeDirection::x_axis);
+  fin.sections.push_back(testing::MakeSection({4.0, 0.0, 0.1}, 1.0, 0.0, testing::Naca4(4, 4)));
+  fin.sections.push_back(testing::MakeSection({4.4, 0.0, 1.3}, 0.6, 0.0, testing::Naca4(4, 4)));
+  c.surfaces.push_back(fin);
+  RunOptions full;
+  full.allow_half_model = false;
+  const PointResult h = skein::Run(c, {}).points[0], f = skein::Run(c, full).points[0];
+  EXPECT_GT(std::abs(f.CY), 1e-3);  // the cambered fin lifts sideways in symmetric flight
+  EXPECT_NEAR(h.CY, f.CY, kHalfVsFull);
+  EXPECT_NEAR(h.CL, f.CL, kHalfVsFull);
+  EXPECT_NEAR(h.Cn, f.Cn, kHalfVsFull);
+}
+
 TEST(HalfModel, IsNotUsedWhenTheMirrorImageIsADifferentAircraft) {
   // A non-symmetric surface off the centre line (a single wing panel on one side): no mirror, full model, and
   // the answer is still that of the full system.
