@@ -74,7 +74,7 @@ TEST(SegmentKernel, FiniteSegmentMatchesTheAngleFormula) {
   const V3 c{r0[1] * r1[2] - r0[2] * r1[1], r0[2] * r1[0] - r0[0] * r1[2], r0[0] * r1[1] - r0[1] * r1[0]};
   const double h = Norm(c) / l0;
   const double mag = (cos1 - cos2) / (4.0 * kPi * h);
-  for (int k = 0; k < 3; ++k) EXPECT_NEAR(v[static_cast<std::size_t>(k)], mag * c[static_cast<std::size_t>(k)] / Norm(c), kRoundOff);
+  for (std::size_t k = 0; k < 3; ++k) EXPECT_NEAR(v[k], mag * c[k] / Norm(c), kRoundOff);
 }
 
 TEST(SegmentKernel, DirectionFollowsTheRightHandRule) {
@@ -187,7 +187,8 @@ TEST(Kernels, RegularisationChangesTheValueByEpsOverHToTheFourth) {
   const double h = 0.3, eps = 0.1 * h, eps4 = eps * eps * eps * eps;
   const double expected = 1e-4 / (1.0 + 1e-4);
   const V3 p{0.2, h, 0.0};
-  const V3 plain = Segment(p, {-1.0, 0.0, 0.0}, {1.5, 0.0, 0.0}), reg = Segment(p, {-1.0, 0.0, 0.0}, {1.5, 0.0, 0.0}, eps4);
+  const V3 a{-1.0, 0.0, 0.0}, b{1.5, 0.0, 0.0};
+  const V3 plain = Segment(p, a, b), reg = Segment(p, a, b, eps4);
   EXPECT_NEAR((plain[2] - reg[2]) / plain[2], expected, 1e-12);
   const V3 s0 = SemiInfinite(p, {0.0, 0.0, 0.0}, {1.0, 0.0, 0.0}),
            s1 = SemiInfinite(p, {0.0, 0.0, 0.0}, {1.0, 0.0, 0.0}, eps4);

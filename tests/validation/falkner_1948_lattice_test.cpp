@@ -42,7 +42,8 @@ double ClAlpha(double sweep_deg) {
 void ExpectFalkner(double sweep_deg, double falkner) {
   const double a = ClAlpha(sweep_deg);
   ::testing::Test::RecordProperty(fmt::format("CL_alpha_{:.0f}deg", sweep_deg), fmt::format("{:.4f}", a));
-  ::testing::Test::RecordProperty(fmt::format("relative_to_falkner_{:.0f}deg", sweep_deg), fmt::format("{:+.4f}", a / falkner - 1));
+  ::testing::Test::RecordProperty(fmt::format("relative_to_falkner_{:.0f}deg", sweep_deg),
+                                  fmt::format("{:+.4f}", a / falkner - 1));
   EXPECT_NEAR(a / falkner, 1.0, kFalknerTolerance) << "CL_alpha " << a << " vs Falkner " << falkner;
   EXPECT_LT(a, falkner) << "a converged lattice lands below Falkner's coarse one";
 }

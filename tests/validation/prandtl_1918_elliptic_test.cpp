@@ -54,7 +54,8 @@ TEST(PrandtlElliptic, SpanEfficiencyConvergesTowardOneAsTheMeshRefines) {
   // e_128 - (e_64 - e_128) r / (1 - r), r the ratio of successive differences.
   std::vector<double> e;
   for (const int n : {16, 32, 64, 128}) e.push_back(EllipticWing(n).e);
-  for (std::size_t k = 0; k < e.size(); ++k) RecordProperty("e_" + std::to_string(16 << k), fmt::format("{:.5f}", e[k]));
+  for (std::size_t k = 0; k < e.size(); ++k)
+    RecordProperty("e_" + std::to_string(16 << k), fmt::format("{:.5f}", e[k]));
   for (std::size_t k = 0; k + 1 < e.size(); ++k) EXPECT_LT(e[k + 1], e[k]) << "monotone";
   const double d1 = e[1] - e[2], d2 = e[2] - e[3];
   const double r = d2 / d1;

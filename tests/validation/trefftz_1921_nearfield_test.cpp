@@ -31,7 +31,8 @@ constexpr double kTrefftzVsNearField = 0.03;  // acceptance
 
 void ExpectAgreement(const Case& c, const std::string& what) {
   const PointResult p = skein::Run(c, {}).points.at(0);
-  ::testing::Test::RecordProperty(what + "_nearfield_over_trefftz", fmt::format("{:.5f}", p.CD_induced_nearfield / p.CD_induced));
+  ::testing::Test::RecordProperty(what + "_nearfield_over_trefftz",
+                                  fmt::format("{:.5f}", p.CD_induced_nearfield / p.CD_induced));
   EXPECT_GT(p.CD_induced, 0.0);
   EXPECT_NEAR(p.CD_induced_nearfield / p.CD_induced, 1.0, kTrefftzVsNearField)
       << what << ": Trefftz " << p.CD_induced << ", near field " << p.CD_induced_nearfield;
