@@ -215,25 +215,27 @@ const Level kSurfaceLevel{"in [[surface]]",
                           {{"wake", "the wake direction is set once for the whole case, in [mesh]"},
                            {"sections", "write each section as a [[surface.section]] table"}}};
 const Level kSectionLevel{"in [[surface.section]]",
-                          {"leading_edge", "chord", "twist", "camber", "spanwise"},
+                          {"leading_edge", "chord", "twist", "camber", "spanwise", "polar", "cl_max", "thickness",
+                           "transition"},
                           {{"root_chord", "did you mean \"chord\"?"},
                            {"root_leading_edge", "did you mean \"leading_edge\"?"},
                            {"wake", "the wake direction is set once for the whole case, in [mesh]"}}};
 const Level kTrapezoidLevel{"in [surface.trapezoid]",
                             {"root_leading_edge", "span", "root_chord", "taper", "sweep", "dihedral", "washout",
-                             "camber", "vertical"},
+                             "camber", "vertical", "polar", "cl_max", "thickness", "transition"},
                             {{"chord", "did you mean \"root_chord\"?"},
                              {"leading_edge", "did you mean \"root_leading_edge\"?"},
                              {"twist", "a trapezoid's twist is set by \"washout\" (tip twist = -washout)"},
                              {"tip_chord", "the tip chord is set by \"taper\" (tip chord / root chord)"},
                              {"wake", "the wake direction is set once for the whole case, in [mesh]"}}};
+const Level kPolarLevel{"in a polar table { cl = [...], cd = [...] }", {"cl", "cd"}};
 const Level kControlLevel{"in [[surface.control]]", {"name", "hinge", "span_fraction", "deflection", "mirror"}};
 const Level kTrimLevel{"in [trim]", {"lift_coefficient", "weight", "adjust"}};
 
 const std::vector<const Level*> kAllLevels = {&kRootLevel,    &kReferenceLevel, &kFlightLevel,
                                               &kRangeLevel,   &kGroundLevel,    &kMeshLevel,
                                               &kSurfaceLevel, &kSectionLevel,   &kTrapezoidLevel,
-                                              &kControlLevel, &kTrimLevel};
+                                              &kControlLevel, &kTrimLevel,      &kPolarLevel};
 
 /// The "(...)" hint for an unknown key, or "" if nothing useful can be said.
 std::string UnknownKeyHint(std::string_view key, const Level& here) {
@@ -303,6 +305,7 @@ class Reader {
   Spacing SpacingKey(const toml::table& t, std::string_view key, const std::string& ctx, Spacing dflt,
                      bool allow_sine) const;
   Camber CamberAt(const toml::node& n, const std::string& ctx) const;
+  SectionViscousData ViscousKeys(const toml::table& t, const std::string& ctx) const;
 
   // -- tables --
   void ReadReference(const toml::table& t, Reference& r) const;
@@ -492,6 +495,48 @@ Camber Reader::CamberAt(const toml::node& n, const std::string& ctx) const {
        fmt::format("expected \"flat\" or \"NACA\" and 4 digits (e.g. \"NACA 2412\") for \"camber\", got {}", Quote(s)));
 }
 
+// polar = { cl = [...], cd = [...] }, cl_max, thickness, transition: strip-theory data of a section.
+SectionViscousData Reader::ViscousKeys(const toml::table& t, const std::string& ctx) const {
+  SectionViscousData v;
+  if (const toml::node* n = t.get("polar")) {
+    const std::string pctx = ctx + " polar";
+    const toml::table& pt = TableAt(*n, "\"polar\"", ctx, " (write polar = { cl = [...], cd = [...] })");
+    CheckKeys(pt, kPolarLevel, pctx);
+    SectionPolar polar;
+    for (const char* key : {"cl", "cd"}) {
+      const toml::node& an = Require(pt, key, pctx);
+      const toml::array* a = an.as_array();
+      if (a == nullptr) Fail(an, pctx, fmt::format("expected an array of numbers for \"{}\", got {}", key, TypeName(an)));
+      if (a->size() < 2 || static_cast<std::int64_t>(a->size()) > kMaxSweepPoints)
+        Fail(an, pctx, fmt::format("\"{}\" needs from 2 to {} values, got {}", key, kMaxSweepPoints, a->size()));
+      std::vector<double>& out = std::string(key) == "cl" ? polar.cl : polar.cd;
+      for (std::size_t i = 0; i < a->size(); ++i) {
+        const toml::node& e = (*a)[i];
+        out.push_back(NumberAt(e, fmt::format("element {} of \"{}\"", i + 1, key), pctx));
+        if (out.size() > 1 && std::string(key) == "cl" && !(out[i] > out[i - 1]))
+          Fail(e, pctx, fmt::format("cl must increase strictly along the table; element {} is {} after {}", i + 1,
+                                    out[i], out[i - 1]));
+        if (std::string(key) == "cd" && !(out[i] >= 0.0 && out[i] < 1.0))
+          Fail(e, pctx, fmt::format("cd must be >= 0 and < 1, got {} (element {})", out[i], i + 1));
+      }
+    }
+    if (polar.cl.size() != polar.cd.size())
+      Fail(*pt.get("cd"), pctx,
+           fmt::format("cd has {} values but cl has {}; give one cd per cl", polar.cd.size(), polar.cl.size()));
+    v.polar = std::move(polar);
+  }
+  if (t.contains("cl_max")) v.cl_max = Number(t, "cl_max", ctx, 0.0, [](double x) {
+    return x > 0.0 && x < 10.0 ? std::string() : std::string("must be > 0 and < 10");
+  });
+  if (t.contains("thickness")) v.thickness = Number(t, "thickness", ctx, 0.0, [](double x) {
+    return x >= 0.0 && x <= 0.5 ? std::string() : std::string("(thickness / chord) must be between 0 and 0.5");
+  });
+  if (t.contains("transition")) v.transition = Number(t, "transition", ctx, 0.0, [](double x) {
+    return x >= 0.0 && x <= 1.0 ? std::string() : std::string("(x/c of transition) must be between 0 and 1");
+  });
+  return v;
+}
+
 // ---- [reference], [flight], [mesh] ------------------------------------------------------------------------------
 
 void Reader::ReadReference(const toml::table& t, Reference& r) const {
@@ -654,6 +699,7 @@ ReadSection Reader::ReadSectionTable(const toml::table& t, const std::string& ct
   s.chord = RequiredNumber(t, "chord", ctx, Positive());
   s.twist_deg = Number(t, "twist", ctx, 0.0, AngleWithin(kMaxAngleDeg));
   if (const toml::node* n = t.get("camber")) s.camber = CamberAt(*n, ctx);
+  s.viscous = ViscousKeys(t, ctx);
   if (const toml::node* n = t.get("spanwise")) {
     if (last) Fail(*n, ctx, "\"spanwise\" counts the panels up to the next section, and the last section has none");
     s.spanwise = Count(t, "spanwise", ctx, 1, kMaxSpanwisePanels);
@@ -700,8 +746,10 @@ std::vector<ReadSection> Reader::ReadTrapezoid(const toml::table& t, const std::
   out[1].section.leading_edge = tip;
   out[1].section.chord = tip_chord;
   out[1].section.twist_deg = 0.0 - washout;  // not -washout: no -0.0 in the echo for a zero washout
+  const SectionViscousData viscous = ViscousKeys(t, ctx);
   for (ReadSection& r : out) {
     r.section.camber = camber;
+    r.section.viscous = viscous;
     r.section.where = Where(t.source());
     r.leading_edge_where = Where(le_node.source());
   }
@@ -1094,6 +1142,18 @@ void WriteCaseToml(const Case& c, std::ostream& out) {
       o += fmt::format("  leading_edge = {}\n  chord = {}\n  twist = {}\n  camber = {}\n", Vec(sec.leading_edge),
                        Num(sec.chord), Num(sec.twist_deg), TomlString(sec.camber.spelling));
       if (sec.spanwise) o += fmt::format("  spanwise = {}\n", *sec.spanwise);
+      const SectionViscousData& v = sec.viscous;
+      if (v.polar) {
+        const auto list = [](const std::vector<double>& x) {
+          std::string l;
+          for (std::size_t i = 0; i < x.size(); ++i) l += (i > 0 ? ", " : "") + Num(x[i]);
+          return l;
+        };
+        o += fmt::format("  polar = {{ cl = [{}], cd = [{}] }}\n", list(v.polar->cl), list(v.polar->cd));
+      }
+      if (v.cl_max) o += fmt::format("  cl_max = {}\n", Num(*v.cl_max));
+      if (v.thickness) o += fmt::format("  thickness = {}\n", Num(*v.thickness));
+      if (v.transition) o += fmt::format("  transition = {}\n", Num(*v.transition));
     }
     for (const Control& ct : s.controls) {
       o += "\n  [[surface.control]]\n";

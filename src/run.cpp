@@ -10,6 +10,7 @@
 #include <omp.h>
 #include <unistd.h>
 
+#include "skein/profile_drag.hpp"
 #include "skein/structural.hpp"
 #include "vec3.hpp"
 
@@ -120,9 +121,18 @@ Results Run(const Case& c, const RunOptions& options) {
       fp.speed = c.flight.speed;
       res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
       if (c.flight.speed_given) AddStructuralLoads(lat, c.flight.density, c.flight.speed, res.points[p]);
+      if (c.flight.speed_given || HasSectionData(c)) {  // strip theory, and the stall-onset search
+        const auto loads_at = [&](double alpha_deg) {
+          FlightPoint other = fp;
+          other.alpha_deg = alpha_deg;
+          return ComputeLoads(lat, c.reference, basis, other);
+        };
+        AddProfileDrag(c, lat, loads_at, res.points[p]);
+      }
     }
     res.times.loads += Since(t0);
   }
+  res.best_lift_to_drag = FindBestLiftToDrag(res.points);
   res.times.total = Since(t_start);
   return res;
 }

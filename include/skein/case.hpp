@@ -58,6 +58,19 @@ struct MeshOptions {
   WakeDirection wake = WakeDirection::freestream;
 };
 
+/// Section drag against section lift, as a table (cl strictly increasing, cd >= 0); linear in between.
+struct SectionPolar {
+  std::vector<double> cl, cd;
+};
+
+/// What strip theory needs of a section for profile drag and stall onset (profile_drag.hpp); all optional.
+struct SectionViscousData {
+  std::optional<SectionPolar> polar;  ///< section drag table; without it, skin friction with a form factor
+  std::optional<double> cl_max;       ///< section maximum lift coefficient, for the critical-section estimate
+  std::optional<double> thickness;    ///< t/c; default: from a NACA 4-digit name, else 0 (a thin plate)
+  std::optional<double> transition;   ///< x/c where the boundary layer turns turbulent; default 0 (all turbulent)
+};
+
 /// One section (rib) of a surface. Sections run from the root (first) to the tip (last).
 struct Section {
   Vec3 leading_edge{0.0, 0.0, 0.0};  ///< m, after the surface offset has been applied
@@ -65,6 +78,7 @@ struct Section {
   double twist_deg = 0.0;            ///< nose-up rotation about the local spanwise axis through the leading edge
   Camber camber;
   std::optional<int> spanwise;       ///< panels between this section and the next (overrides the share)
+  SectionViscousData viscous;        ///< profile drag and cl_max data, blended linearly between sections
   SourceRegion where;                ///< where the section was written (or the trapezoid table)
 };
 

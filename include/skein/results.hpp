@@ -40,11 +40,20 @@ struct StructuralLoads {
   std::optional<double> mirrored_root_shear_N, mirrored_root_bending_Nm;
 };
 
+/// Strip-theory section data of a surface's strips (profile_drag.hpp), in the order of StripLoads.
+struct StripSectionLoads {
+  std::vector<double> cd_profile;  ///< section profile drag coefficient
+  std::vector<double> reynolds;    ///< V c / nu (0 when the speed is not given)
+  std::vector<double> cl_max;      ///< section maximum lift (empty unless every strip of the surface has one)
+};
+
 struct SurfaceLoads {
   std::string name;
   double CL = 0.0, CD_induced = 0.0, CD_induced_nearfield = 0.0, CY = 0.0, Cl = 0.0, Cm = 0.0, Cn = 0.0;
   StripLoads strips;
   std::optional<StructuralLoads> structural;  ///< present when the case gives a speed
+  std::optional<double> CD_profile;           ///< the surface's share of PointResult::profile->CD_profile
+  std::optional<StripSectionLoads> sections;  ///< present with profile drag
   /// Downwash from the surfaces ahead: the angle (deg) by which the velocity they induce at this surface's
   /// control points turns the local flow down, away from the freestream, in the plane of the drag and lift
   /// directions, averaged over the control points weighted by panel area; and its derivative with respect to
@@ -53,6 +62,31 @@ struct SurfaceLoads {
   double downwash_deg = 0.0;
   double downwash_gradient = 0.0;
   std::vector<std::string> downwash_from;  ///< names of the surfaces ahead, in case order
+};
+
+/// Profile drag by strip theory and the total drag polar of a point (profile_drag.hpp).
+struct ProfileDrag {
+  double CD_profile = 0.0;  ///< sum over strips of cd c w / S_ref
+  double CD_total = 0.0;    ///< CD_induced (Trefftz plane) + CD_profile
+  std::optional<double> L_over_D;  ///< CL / CD_total
+};
+
+/// Critical-section stall onset: the configuration CL at which the first strip reaches its section cl_max,
+/// with the inviscid span loading of the lattice. Optimistic: a wing stalls progressively, and the real CL_max is
+/// usually found below this figure only by test.
+struct StallOnset {
+  double CL = 0.0;
+  double alpha_deg = 0.0;
+  std::string surface;
+  double y = 0.0;              ///< m, the strip's station
+  double span_fraction = 0.0;  ///< |y| / (tip |y|) of that surface's half (height fraction for a fin)
+  bool already_beyond = false;  ///< true when some strip is above its cl_max at this point
+};
+
+/// The highest L/D over the points of a sweep that have a profile drag estimate.
+struct BestLiftToDrag {
+  std::size_t point = 0;
+  double L_over_D = 0.0, CL = 0.0, alpha_deg = 0.0;
 };
 
 /// One flight point of a sweep.
@@ -66,6 +100,8 @@ struct PointResult {
   std::optional<Vec3> neutral_point;      ///< m; absent when CL_alpha is zero
   std::optional<double> static_margin;    ///< fraction of c_ref, positive = stable
   std::vector<SurfaceLoads> surfaces;
+  std::optional<ProfileDrag> profile;      ///< present when the case gives section data or a speed
+  std::optional<StallOnset> stall_onset;   ///< present when the sections give cl_max
   std::vector<std::string> warnings;
 };
 
@@ -96,6 +132,7 @@ struct Results {
   double rcond = 1.0;  ///< smallest reciprocal condition estimate of the systems factorised
   std::vector<std::string> warnings;
   std::vector<PointResult> points;
+  std::optional<BestLiftToDrag> best_lift_to_drag;  ///< over the sweep, when profile drag was estimated
   StageTimes times;
 };
 

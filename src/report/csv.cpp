@@ -29,7 +29,7 @@ void WritePointsCsv(const Results& r, std::ostream& out) {
     for (const auto& [k, v] : r.points.front().derivatives.items) deriv_names.push_back(k);
   out << "point,alpha_deg,beta_deg,mach,p,q,r,CL,CD_induced,CD_induced_nearfield,CY,Cl,Cm,Cn,span_efficiency";
   for (const auto& k : deriv_names) out << ',' << k;
-  out << ",neutral_point_x,static_margin\n";
+  out << ",neutral_point_x,static_margin,CD_profile,CD_total,L_over_D,CL_stall_onset,alpha_stall_onset_deg\n";
   for (std::size_t i = 0; i < r.points.size(); ++i) {
     const PointResult& p = r.points[i];
     out << i;
@@ -38,8 +38,16 @@ void WritePointsCsv(const Results& r, std::ostream& out) {
       out << ',' << Cell(v);
     out << ',' << Cell(p.span_efficiency);
     for (const auto& k : deriv_names) out << ',' << Cell(p.derivatives.Get(k));
-    out << ',' << (p.neutral_point ? Cell((*p.neutral_point)[0]) : std::string()) << ',' << Cell(p.static_margin)
-        << '\n';
+    out << ',' << (p.neutral_point ? Cell((*p.neutral_point)[0]) : std::string()) << ',' << Cell(p.static_margin);
+    if (p.profile)
+      out << ',' << Cell(p.profile->CD_profile) << ',' << Cell(p.profile->CD_total) << ',' << Cell(p.profile->L_over_D);
+    else
+      out << ",,,";
+    if (p.stall_onset)
+      out << ',' << Cell(p.stall_onset->CL) << ',' << Cell(p.stall_onset->alpha_deg);
+    else
+      out << ",,";
+    out << '\n';
   }
 }
 

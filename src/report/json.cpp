@@ -135,9 +135,29 @@ void WriteJson(const Results& r, std::ostream& out) {
         }
         o["structural"] = st;
       }
+      if (s.CD_profile) o["CD_profile"] = w.Num(*s.CD_profile, sat + ".CD_profile");
+      if (s.sections) {
+        o["strips"]["cd_profile"] = w.Array(s.sections->cd_profile, sat + ".strips.cd_profile");
+        o["strips"]["reynolds"] = w.Array(s.sections->reynolds, sat + ".strips.reynolds");
+        if (!s.sections->cl_max.empty()) o["strips"]["cl_max"] = w.Array(s.sections->cl_max, sat + ".strips.cl_max");
+      }
       js.push_back(o);
     }
     jp["surfaces"] = js;
+    if (p.profile)
+      jp["profile"] = {{"CD_profile", w.Num(p.profile->CD_profile, at + ".profile.CD_profile")},
+                       {"CD_total", w.Num(p.profile->CD_total, at + ".profile.CD_total")},
+                       {"L_over_D", p.profile->L_over_D ? w.Num(*p.profile->L_over_D, at + ".profile.L_over_D")
+                                                         : ordered_json()}};
+    if (p.stall_onset)
+      jp["stall_onset"] = {{"CL", w.Num(p.stall_onset->CL, at + ".stall_onset.CL")},
+                           {"alpha_deg", w.Num(p.stall_onset->alpha_deg, at + ".stall_onset.alpha_deg")},
+                           {"surface", p.stall_onset->surface},
+                           {"y", w.Num(p.stall_onset->y, at + ".stall_onset.y")},
+                           {"span_fraction", w.Num(p.stall_onset->span_fraction, at + ".stall_onset.span_fraction")},
+                           {"already_beyond", p.stall_onset->already_beyond},
+                           {"method", "critical section: the first strip to reach its section cl_max, inviscid "
+                                      "span loading; optimistic, verify by test"}};
     jp["warnings"] = p.warnings;
     points.push_back(jp);
   }
@@ -145,6 +165,11 @@ void WriteJson(const Results& r, std::ostream& out) {
   warnings.insert(warnings.end(), w.problems.begin(), w.problems.end());
   doc["warnings"] = warnings;
   doc["points"] = points;
+  if (r.best_lift_to_drag)
+    doc["best_lift_to_drag"] = {{"point", r.best_lift_to_drag->point},
+                                {"L_over_D", w.Num(r.best_lift_to_drag->L_over_D, "best_lift_to_drag.L_over_D")},
+                                {"CL", w.Num(r.best_lift_to_drag->CL, "best_lift_to_drag.CL")},
+                                {"alpha_deg", w.Num(r.best_lift_to_drag->alpha_deg, "best_lift_to_drag.alpha_deg")}};
   doc["timings"] = {{"read", r.times.read},         {"mesh", r.times.mesh},   {"assemble", r.times.assemble},
                     {"factorise", r.times.factorise}, {"solve", r.times.solve}, {"loads", r.times.loads},
                     {"output", r.times.output},     {"total", r.times.total}, {"threads", r.times.threads_used}};

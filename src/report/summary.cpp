@@ -115,6 +115,34 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
       out << "  (from the inviscid strip normal forces; limit and ultimate loads need load factors, gusts and a\n"
              "   structural safety factor from the applicable airworthiness rules)\n";
   }
+  bool profile = false, stall = false;
+  for (const PointResult& p : r.points) {
+    profile = profile || p.profile.has_value();
+    stall = stall || p.stall_onset.has_value();
+  }
+  if (profile || stall) {
+    out << "\nStrip theory (section drag at each strip's cl; stall onset by the critical-section method)\n";
+    out << " alpha       CL  CD_profile    CD_total     L/D   stall-onset CL  at alpha  first strip\n";
+    for (const PointResult& p : r.points) {
+      out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.CL, 8, 4) << ' ';
+      if (p.profile)
+        out << Fixed(p.profile->CD_profile, 11, 6) << ' ' << Fixed(p.profile->CD_total, 11, 6) << ' '
+            << Opt(p.profile->L_over_D, 7, 2);
+      else
+        out << fmt::format("{:>11} {:>11} {:>7}", "-", "-", "-");
+      if (p.stall_onset)
+        out << fmt::format("  {:>14.4f}  {:>8.2f}  {} y = {:.3g} m ({:.0f}% of the half-span){}", p.stall_onset->CL,
+                           p.stall_onset->alpha_deg, p.stall_onset->surface, p.stall_onset->y,
+                           100.0 * p.stall_onset->span_fraction, p.stall_onset->already_beyond ? ", BEYOND" : "");
+      out << '\n';
+    }
+    if (r.best_lift_to_drag)
+      out << fmt::format("  best L/D {:.2f} at alpha {:.2f} deg, CL {:.4f} (of the points computed)\n",
+                         r.best_lift_to_drag->L_over_D, r.best_lift_to_drag->alpha_deg, r.best_lift_to_drag->CL);
+    if (stall)
+      out << "  The critical-section stall onset is OPTIMISTIC: it takes the inviscid span loading up to the first strip's\n"
+             "  cl_max and ignores spanwise boundary-layer flow and Reynolds effects; real maximum lift comes from test.\n";
+  }
   out << "\nCautions: conceptual-design estimates from linear, inviscid theory; no stall, separation or viscous\n"
          "drag. Verify by test, and follow the applicable airworthiness rules and licensed engineers.\n";
   out << fmt::format("Time {:.3f} s (mesh {:.3f}, assemble {:.3f}, factorise {:.3f}, solve {:.3f}, loads {:.3f}), {} thread{}\n",
