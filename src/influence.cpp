@@ -1,61 +1,384 @@
 // Skein stage 3, assemble. See influence.hpp.
+//
+// Speed. Both passes spend their time in the horseshoe kernel, so it is evaluated here in a form with the
+// divisions merged: per horseshoe four square roots and five divisions instead of the four and twelve of
+// AddHorseshoeVelocity (biot_savart.hpp), which stays the reference the tests hold these loops to (1e-12,
+// tests/unit/speed_paths_test.cpp). With c = r1 x r2 (|c|^2 = h^2 |r0|^2, h the distance to the segment's
+// line) and k = r0 . (r1 |r2| - r2 |r1|) = |r1| |r2| r0 . (r1/|r1| - r2/|r2|), the finite segment's factor is
+//     f = k |c|^2 / (4 pi |r1| |r2| (|c|^4 + eps^4 |r0|^4)),
+// and a semi-infinite leg's (unit d, c = d x r, |c| = h, s = +1 or -1)
+//     f = s (|r| + r . d) |c|^2 / (4 pi |r| (|c|^4 + eps^4)):
+// the expressions of biot_savart.hpp multiplied out. eps^4 |r0|^4 belongs to the source and is computed once.
+// The products stay in range for lengths between about 1e-25 m and 1e25 m.
+//
+// The loops run over contiguous arrays without branches (the ground plane is a template argument) and are
+// compiled twice, for the baseline instruction set and for AVX2 with FMA, chosen at run time by what the
+// processor has. An entry is computed by the same instructions whichever thread runs it, so results do not
+// depend on the thread count.
+//
+// InducedVelocityAt evaluates, for a block of target points, every horseshoe's velocity into the rows of a
+// (3 x block) x horseshoes matrix and multiplies it by the circulations (one matrix product per block, run
+// sequentially inside its thread; blocks are fixed by target index). When the targets are one point per
+// panel of an exactly mirrored lattice (every mirrored panel's horseshoe and point are the bit-exact
+// reflections of its given panel's, the trailing legs have no sideways component), the reflection
+// S = diag(1, -1, 1) gives the mirrored half for free: a mirrored horseshoe runs the other way across the span,
+// so V_m(j)(S P) = S V_j(P) and V_j(S P) = S V_m(j)(P), and one lying in the plane y = 0 has
+// V_j(S P) = -S V_j(P). The horseshoes are evaluated at the given-half targets only (half the kernel work) and
+// the circulations are multiplied twice, once as they are and once with the two halves exchanged.
 #include "skein/influence.hpp"
 
+#include <algorithm>
+#include <array>
 #include <cmath>
+#include <functional>
+#include <utility>
 
 #include "skein/biot_savart.hpp"
 #include "vec3.hpp"
 
+#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
+#define SKEIN_AVX2_CLONE 1
+#define SKEIN_TARGET_AVX2 __attribute__((target("avx2,fma")))
+#endif
+#if defined(__GNUC__) || defined(__clang__)
+#define SKEIN_ALWAYS_INLINE inline __attribute__((always_inline))
+#else
+#define SKEIN_ALWAYS_INLINE inline
+#endif
+
 namespace skein {
 namespace {
 
-/// One horseshoe's geometry, loaded once and reused across many field points (loop-invariant for the
-/// vectoriser). `image` holds its reflection in the ground plane, if any.
-struct Source {
-  double a[3], b[3], ta[3], tb[3];
-  double d[3];
-  double core4;
-  bool has_ground = false;
-  double ga[3], gb[3], gta[3], gtb[3], gd[3];
+// ---- the kernel ---------------------------------------------------------------------------------------
+
+/// Finite segment from A to B at P: r1 = P - A, r2 = P - B with lengths n1, n2 (>= kTiny), r0 = B - A,
+/// e = eps^4 |r0|^4. Adds to (u, v, w).
+SKEIN_ALWAYS_INLINE void SegmentTerm(double r1x, double r1y, double r1z, double n1, double r2x, double r2y,
+                                     double r2z, double n2, double r0x, double r0y, double r0z, double e,
+                                     double& u, double& v, double& w) {
+  const double cx = r1y * r2z - r1z * r2y;
+  const double cy = r1z * r2x - r1x * r2z;
+  const double cz = r1x * r2y - r1y * r2x;
+  const double c2 = cx * cx + cy * cy + cz * cz;
+  const double k = r0x * (r1x * n2 - r2x * n1) + r0y * (r1y * n2 - r2y * n1) + r0z * (r1z * n2 - r2z * n1);
+  const double f = kInv4Pi * k * c2 / (n1 * n2 * (c2 * c2 + e) + kTiny);
+  u += f * cx;
+  v += f * cy;
+  w += f * cz;
+}
+
+/// Semi-infinite leg from A along the unit vector d at P: r = P - A with length n (>= kTiny), strength s.
+SKEIN_ALWAYS_INLINE void SemiInfiniteTerm(double rx, double ry, double rz, double n, double dx, double dy,
+                                          double dz, double eps4, double s, double& u, double& v, double& w) {
+  const double cx = dy * rz - dz * ry;
+  const double cy = dz * rx - dx * rz;
+  const double cz = dx * ry - dy * rx;
+  const double h2 = cx * cx + cy * cy + cz * cz;
+  const double f = s * kInv4Pi * (n + (rx * dx + ry * dy + rz * dz)) * h2 / (n * (h2 * h2 + eps4) + kTiny);
+  u += f * cx;
+  v += f * cy;
+  w += f * cz;
+}
+
+/// One horseshoe (infinity -> TA -> A -> B -> TB -> infinity, legs along d) with its per-source constants.
+struct Shoe {
+  double ta[3], a[3], b[3], tb[3], d[3];
+  double e[3];  ///< eps^4 |r0|^4 of TA -> A, A -> B, B -> TB
+  double eps4;
 };
 
-Source LoadSource(const Lattice& lat, std::size_t j, const WakeGeometry& wake) {
-  Source s{};
-  auto load = [&](double* dst, const PointArray& p) {
-    dst[0] = p.x[j];
-    dst[1] = p.y[j];
-    dst[2] = p.z[j];
-  };
-  load(s.a, lat.a);
-  load(s.b, lat.b);
-  load(s.ta, lat.te_a);
-  load(s.tb, lat.te_b);
-  for (int k = 0; k < 3; ++k) s.d[k] = wake.direction[static_cast<std::size_t>(k)];
-  s.core4 = lat.core4[j];
-  if (wake.ground.enabled) {
-    // Mirror in z = h with the order reversed: the image carries the same circulation and makes the flow
-    // symmetric about the ground plane, so no air crosses it.
-    const double h2 = 2.0 * wake.ground.height_z;
-    auto refl = [&](double* dst, const double* src) {
-      dst[0] = src[0];
-      dst[1] = src[1];
-      dst[2] = h2 - src[2];
-    };
-    s.has_ground = true;
-    refl(s.ga, s.b);
-    refl(s.gb, s.a);
-    refl(s.gta, s.tb);
-    refl(s.gtb, s.ta);
-    s.gd[0] = s.d[0];
-    s.gd[1] = s.d[1];
-    s.gd[2] = -s.d[2];
+/// Velocity at P of a unit horseshoe given by scalars (the same legs, in the same order, as
+/// AddHorseshoeVelocity). Adds to (u, v, w).
+SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
+                                      double ax, double ay, double az, double bx, double by, double bz,
+                                      double tbx, double tby, double tbz, double e0, double e1, double e2,
+                                      double eps4, double dx, double dy, double dz, double& u, double& v,
+                                      double& w) {
+  const double qx = px - tax, qy = py - tay, qz = pz - taz;
+  const double r1x = px - ax, r1y = py - ay, r1z = pz - az;
+  const double r2x = px - bx, r2y = py - by, r2z = pz - bz;
+  const double sx = px - tbx, sy = py - tby, sz = pz - tbz;
+  const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
+  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
+  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
+  const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
+  SemiInfiniteTerm(qx, qy, qz, nq, dx, dy, dz, eps4, -1.0, u, v, w);
+  SegmentTerm(qx, qy, qz, nq, r1x, r1y, r1z, n1, ax - tax, ay - tay, az - taz, e0, u, v, w);
+  SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, bx - ax, by - ay, bz - az, e1, u, v, w);
+  SegmentTerm(r2x, r2y, r2z, n2, sx, sy, sz, ns, tbx - bx, tby - by, tbz - bz, e2, u, v, w);
+  SemiInfiniteTerm(sx, sy, sz, ns, dx, dy, dz, eps4, 1.0, u, v, w);
+}
+
+SKEIN_ALWAYS_INLINE void ShoeVelocity(const Shoe& s, double px, double py, double pz, double& u, double& v,
+                                      double& w) {
+  ShoeVelocity(px, py, pz, s.ta[0], s.ta[1], s.ta[2], s.a[0], s.a[1], s.a[2], s.b[0], s.b[1], s.b[2], s.tb[0],
+               s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4, s.d[0], s.d[1], s.d[2], u, v, w);
+}
+
+double SegmentConstant(const double* p, const double* q, double eps4) {
+  const double x = q[0] - p[0], y = q[1] - p[1], z = q[2] - p[2];
+  const double r0sq = x * x + y * y + z * z;
+  return eps4 * r0sq * r0sq;
+}
+
+Shoe MakeShoe(const double* ta, const double* a, const double* b, const double* tb, const double* d, double eps4) {
+  Shoe s{};
+  for (int k = 0; k < 3; ++k) {
+    s.ta[k] = ta[k];
+    s.a[k] = a[k];
+    s.b[k] = b[k];
+    s.tb[k] = tb[k];
+    s.d[k] = d[k];
   }
+  s.e[0] = SegmentConstant(ta, a, eps4);
+  s.e[1] = SegmentConstant(a, b, eps4);
+  s.e[2] = SegmentConstant(b, tb, eps4);
+  s.eps4 = eps4;
   return s;
 }
 
-inline void SourceVelocity(const Source& s, double px, double py, double pz, double& u, double& v, double& w) {
-  AddHorseshoeVelocity(px, py, pz, s.a, s.b, s.ta, s.tb, s.d, s.core4, u, v, w);
-  if (s.has_ground) AddHorseshoeVelocity(px, py, pz, s.ga, s.gb, s.gta, s.gtb, s.gd, s.core4, u, v, w);
+/// Horseshoe j of the lattice under the wake.
+Shoe LoadShoe(const Lattice& lat, std::size_t j, const WakeGeometry& wake) {
+  const double a[3] = {lat.a.x[j], lat.a.y[j], lat.a.z[j]};
+  const double b[3] = {lat.b.x[j], lat.b.y[j], lat.b.z[j]};
+  const double ta[3] = {lat.te_a.x[j], lat.te_a.y[j], lat.te_a.z[j]};
+  const double tb[3] = {lat.te_b.x[j], lat.te_b.y[j], lat.te_b.z[j]};
+  const double d[3] = {wake.direction[0], wake.direction[1], wake.direction[2]};
+  return MakeShoe(ta, a, b, tb, d, lat.core4[j]);
+}
+
+/// Its image in the ground plane z = height_z: reflected points in reversed order, so that it carries the
+/// same circulation and makes the flow symmetric about the plane (no air crosses it).
+Shoe GroundImage(const Shoe& s, const WakeGeometry& wake) {
+  const double h2 = 2.0 * wake.ground.height_z;
+  auto refl = [&](const double* p) { return std::array<double, 3>{p[0], p[1], h2 - p[2]}; };
+  const auto ga = refl(s.b), gb = refl(s.a), gta = refl(s.tb), gtb = refl(s.ta);
+  const double gd[3] = {s.d[0], s.d[1], -s.d[2]};
+  return MakeShoe(gta.data(), ga.data(), gb.data(), gtb.data(), gd, s.eps4);
+}
+
+// ---- assembly: one column, the source fixed, the targets vectorised -------------------------------------
+
+struct TargetArrays {
+  const double *px, *py, *pz, *nx, *ny, *nz;
+  std::size_t n;
+};
+
+/// Column of a single system: out[i] = n_i . v(P_i) of the source (and its ground image).
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void DirectColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
+                                          double* out) {
+  const Shoe s = src, g = src_ground;
+  const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
+#pragma omp simd
+  for (std::size_t i = 0; i < t.n; ++i) {
+    double u = 0.0, v = 0.0, w = 0.0;
+    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(g, px[i], py[i], pz[i], u, v, w);
+    out[i] = u * nx[i] + v * ny[i] + w * nz[i];
+  }
+}
+
+/// Columns of the symmetric/antisymmetric pair: anti[i] = direct - image for every target, sym[i] =
+/// direct + image for the first n_sym.
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
+                                        const Shoe& img, const Shoe& img_ground, std::size_t n_sym, double* anti,
+                                        double* sym) {
+  const Shoe s = src, sg = src_ground, m = img, mg = img_ground;
+  const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
+#pragma omp simd
+  for (std::size_t i = 0; i < n_sym; ++i) {
+    double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
+    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], u, v, w);
+    ShoeVelocity(m, px[i], py[i], pz[i], ui, vi, wi);
+    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], ui, vi, wi);
+    const double direct = u * nx[i] + v * ny[i] + w * nz[i];
+    const double image = ui * nx[i] + vi * ny[i] + wi * nz[i];
+    anti[i] = direct - image;
+    sym[i] = direct + image;
+  }
+#pragma omp simd
+  for (std::size_t i = n_sym; i < t.n; ++i) {
+    double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
+    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], u, v, w);
+    ShoeVelocity(m, px[i], py[i], pz[i], ui, vi, wi);
+    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], ui, vi, wi);
+    anti[i] = (u * nx[i] + v * ny[i] + w * nz[i]) - (ui * nx[i] + vi * ny[i] + wi * nz[i]);
+  }
+}
+
+// ---- velocity pass: one target, the sources vectorised ----------------------------------------------------
+
+/// Horseshoes as structure of arrays sharing one leg direction.
+struct ShoeTable {
+  enum Field { tax, tay, taz, ax, ay, az, bx, by, bz, tbx, tby, tbz, e0, e1, e2, eps4, kFields };
+  std::array<std::vector<double>, kFields> f;
+  double d[3] = {0.0, 0.0, 0.0};
+  std::size_t size() const { return f[0].size(); }
+  void Add(const Shoe& s) {
+    const double v[kFields] = {s.ta[0], s.ta[1], s.ta[2], s.a[0], s.a[1], s.a[2], s.b[0], s.b[1],
+                               s.b[2],  s.tb[0], s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4};
+    for (int k = 0; k < kFields; ++k) f[static_cast<std::size_t>(k)].push_back(v[k]);
+    for (int k = 0; k < 3; ++k) d[k] = s.d[k];
+  }
+};
+
+/// Velocities at P of every horseshoe of `t` (plus its ground image in `g`): ru[s], rv[s], rw[s].
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void KernelRowImpl(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz,
+                                       double* ru, double* rv, double* rw) {
+  using F = ShoeTable::Field;
+  const std::size_t n = t.size();
+  const double *tax = t.f[F::tax].data(), *tay = t.f[F::tay].data(), *taz = t.f[F::taz].data();
+  const double *ax = t.f[F::ax].data(), *ay = t.f[F::ay].data(), *az = t.f[F::az].data();
+  const double *bx = t.f[F::bx].data(), *by = t.f[F::by].data(), *bz = t.f[F::bz].data();
+  const double *tbx = t.f[F::tbx].data(), *tby = t.f[F::tby].data(), *tbz = t.f[F::tbz].data();
+  const double *e0 = t.f[F::e0].data(), *e1 = t.f[F::e1].data(), *e2 = t.f[F::e2].data();
+  const double* eps4 = t.f[F::eps4].data();
+  const double dx = t.d[0], dy = t.d[1], dz = t.d[2];
+  const double *gtax = g.f[F::tax].data(), *gtay = g.f[F::tay].data(), *gtaz = g.f[F::taz].data();
+  const double *gax = g.f[F::ax].data(), *gay = g.f[F::ay].data(), *gaz = g.f[F::az].data();
+  const double *gbx = g.f[F::bx].data(), *gby = g.f[F::by].data(), *gbz = g.f[F::bz].data();
+  const double *gtbx = g.f[F::tbx].data(), *gtby = g.f[F::tby].data(), *gtbz = g.f[F::tbz].data();
+  const double *ge0 = g.f[F::e0].data(), *ge1 = g.f[F::e1].data(), *ge2 = g.f[F::e2].data();
+  const double gdx = g.d[0], gdy = g.d[1], gdz = g.d[2];
+#pragma omp simd
+  for (std::size_t s = 0; s < n; ++s) {
+    double u = 0.0, v = 0.0, w = 0.0;
+    ShoeVelocity(px, py, pz, tax[s], tay[s], taz[s], ax[s], ay[s], az[s], bx[s], by[s], bz[s], tbx[s], tby[s],
+                 tbz[s], e0[s], e1[s], e2[s], eps4[s], dx, dy, dz, u, v, w);
+    if constexpr (kGround)
+      ShoeVelocity(px, py, pz, gtax[s], gtay[s], gtaz[s], gax[s], gay[s], gaz[s], gbx[s], gby[s], gbz[s],
+                   gtbx[s], gtby[s], gtbz[s], ge0[s], ge1[s], ge2[s], eps4[s], gdx, gdy, gdz, u, v, w);
+    ru[s] = u;
+    rv[s] = v;
+    rw[s] = w;
+  }
+}
+
+// ---- one instance per instruction set, chosen at run time -------------------------------------------------
+
+template <bool kGround>
+void DirectColumnBase(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {
+  DirectColumnImpl<kGround>(t, s, g, out);
+}
+template <bool kGround>
+void PairColumnBase(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m, const Shoe& mg,
+                    std::size_t n_sym, double* anti, double* sym) {
+  PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
+}
+template <bool kGround>
+void KernelRowBase(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz, double* ru,
+                   double* rv, double* rw) {
+  KernelRowImpl<kGround>(t, g, px, py, pz, ru, rv, rw);
+}
+#if defined(SKEIN_AVX2_CLONE)
+template <bool kGround>
+SKEIN_TARGET_AVX2 void DirectColumnAvx2(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {
+  DirectColumnImpl<kGround>(t, s, g, out);
+}
+template <bool kGround>
+SKEIN_TARGET_AVX2 void PairColumnAvx2(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m,
+                                      const Shoe& mg, std::size_t n_sym, double* anti, double* sym) {
+  PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
+}
+template <bool kGround>
+SKEIN_TARGET_AVX2 void KernelRowAvx2(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz,
+                                     double* ru, double* rv, double* rw) {
+  KernelRowImpl<kGround>(t, g, px, py, pz, ru, rv, rw);
+}
+bool HaveAvx2() {
+  static const bool have = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
+  return have;
+}
+#else
+bool HaveAvx2() { return false; }
+#endif
+
+/// The kernel entry points for this processor and ground setting.
+struct Kernels {
+  void (*direct)(const TargetArrays&, const Shoe&, const Shoe&, double*);
+  void (*pair)(const TargetArrays&, const Shoe&, const Shoe&, const Shoe&, const Shoe&, std::size_t, double*,
+               double*);
+  void (*row)(const ShoeTable&, const ShoeTable&, double, double, double, double*, double*, double*);
+};
+
+template <bool kGround>
+Kernels KernelsFor() {
+#if defined(SKEIN_AVX2_CLONE)
+  if (HaveAvx2()) return {&DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>};
+#endif
+  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>};
+}
+Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
+
+// ---- the mirror plan of the velocity pass --------------------------------------------------------------
+
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wfloat-equal"
+/// Exact comparison: the mirror path needs bit-exact reflections, not nearly equal ones.
+bool Exactly(double x, double y) { return x == y; }
+#pragma GCC diagnostic pop
+
+/// Order of the sources in the velocity pass and the targets it evaluates. Mirrored: order = [given panels |
+/// their mirrors, in the same order | panels in the plane y = 0], and each given target carries its mirror.
+struct MirrorPlan {
+  bool mirrored = false;
+  std::vector<std::size_t> order;
+  std::size_t given = 0;
+  std::vector<std::pair<std::size_t, std::ptrdiff_t>> targets;  ///< (point, mirrored point or -1)
+};
+
+bool MirroredPoint(const PointArray& p, std::size_t m, const PointArray& q, std::size_t g) {
+  return Exactly(p.x[m], q.x[g]) && Exactly(p.y[m], -q.y[g]) && Exactly(p.z[m], q.z[g]);
+}
+
+MirrorPlan PlanMirror(const Lattice& lat, const PointArray& points, const WakeGeometry& wake) {
+  const std::size_t ns = lat.panels();
+  MirrorPlan plain;
+  for (std::size_t j = 0; j < ns; ++j) plain.order.push_back(j);
+  for (std::size_t p = 0; p < points.size(); ++p) plain.targets.emplace_back(p, -1);
+  if (points.size() != ns || !Exactly(wake.direction[1], 0.0)) return plain;
+  std::vector<std::ptrdiff_t> image_of(ns, -1);
+  for (std::size_t i = 0; i < ns; ++i) {
+    const int g = lat.mirror_of[i];
+    if (g < 0) continue;
+    const auto gi = static_cast<std::size_t>(g);
+    if (gi >= ns || lat.mirror_of[gi] >= 0 || image_of[gi] >= 0) return plain;
+    image_of[gi] = static_cast<std::ptrdiff_t>(i);
+  }
+  MirrorPlan plan;
+  plan.mirrored = true;
+  std::vector<std::size_t> self;
+  for (std::size_t i = 0; i < ns; ++i) {
+    if (lat.mirror_of[i] >= 0) continue;
+    if (image_of[i] < 0) {
+      // Unpaired: must be its own reflection, every point of its horseshoe in the plane y = 0.
+      if (!(Exactly(lat.a.y[i], 0.0) && Exactly(lat.b.y[i], 0.0) && Exactly(lat.te_a.y[i], 0.0) &&
+            Exactly(lat.te_b.y[i], 0.0)))
+        return plain;
+      self.push_back(i);
+      continue;
+    }
+    const auto m = static_cast<std::size_t>(image_of[i]);
+    // The mirror runs the other way: its a, b, te_a, te_b reflect the given panel's b, a, te_b, te_a.
+    if (!(MirroredPoint(lat.a, m, lat.b, i) && MirroredPoint(lat.b, m, lat.a, i) &&
+          MirroredPoint(lat.te_a, m, lat.te_b, i) && MirroredPoint(lat.te_b, m, lat.te_a, i) &&
+          Exactly(lat.core4[m], lat.core4[i]) && MirroredPoint(points, m, points, i)))
+      return plain;
+    plan.order.push_back(i);
+    plan.targets.emplace_back(i, static_cast<std::ptrdiff_t>(m));
+  }
+  plan.given = plan.order.size();
+  for (std::size_t k = 0; k < plan.given; ++k) plan.order.push_back(static_cast<std::size_t>(image_of[plan.order[k]]));
+  for (std::size_t i : self) {
+    plan.order.push_back(i);
+    plan.targets.emplace_back(i, -1);
+  }
+  return plan;
 }
 
 bool NormalsMirrorSymmetric(const Lattice& lat) {
@@ -135,97 +458,106 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
     ny[i] = lat.normal.y[p];
     nz[i] = lat.normal.z[p];
   }
+  const TargetArrays targets{px.data(), py.data(), pz.data(), nx.data(), ny.data(), nz.data(), n};
   std::vector<Eigen::MatrixXd> mats;
   for (const auto& l : layouts) {
     const auto m = static_cast<Eigen::Index>(l.panel.size());
     mats.emplace_back(m, m);
   }
   const bool split = layouts.size() == 2;
+  const bool ground = wake.ground.enabled;
+  const Kernels kernels = KernelsFor(ground);
   const auto ni = static_cast<std::ptrdiff_t>(n);
 #pragma omp parallel for schedule(static)
   for (std::ptrdiff_t jj = 0; jj < ni; ++jj) {
     const auto j = static_cast<std::size_t>(jj);
-    const Source src = LoadSource(lat, wide.panel[j], wake);
+    const Shoe src = LoadShoe(lat, wide.panel[j], wake);
+    const Shoe src_ground = ground ? GroundImage(src, wake) : src;
     const bool has_image = wide.image[j] >= 0;
-    const Source img = has_image ? LoadSource(lat, static_cast<std::size_t>(wide.image[j]), wake) : Source{};
     double* col_wide = mats.back().col(jj).data();
     double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
-    if (!split) {
-#pragma omp simd
-      for (std::size_t i = 0; i < n; ++i) {
-        double u = 0.0, v = 0.0, w = 0.0;
-        SourceVelocity(src, px[i], py[i], pz[i], u, v, w);
-        col_wide[i] = u * nx[i] + v * ny[i] + w * nz[i];
-      }
+    if (!split || !has_image) {
+      // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
+      kernels.direct(targets, src, src_ground, col_wide);
+      if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
       continue;
     }
-    if (!has_image) {
-      // A centre-line panel: its own image, so it enters the antisymmetric system once.
-      for (std::size_t i = 0; i < n; ++i) {
-        double u = 0.0, v = 0.0, w = 0.0;
-        SourceVelocity(src, px[i], py[i], pz[i], u, v, w);
-        col_wide[i] = u * nx[i] + v * ny[i] + w * nz[i];
-      }
-      continue;
-    }
-#pragma omp simd
-    for (std::size_t i = 0; i < n; ++i) {
-      double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
-      SourceVelocity(src, px[i], py[i], pz[i], u, v, w);
-      SourceVelocity(img, px[i], py[i], pz[i], ui, vi, wi);
-      const double direct = u * nx[i] + v * ny[i] + w * nz[i];
-      const double image = ui * nx[i] + vi * ny[i] + wi * nz[i];
-      col_wide[i] = direct - image;
-      if (i < n_sym) col_sym[i] = direct + image;
-    }
+    const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
+    const Shoe img_ground = ground ? GroundImage(img, wake) : img;
+    kernels.pair(targets, src, src_ground, img, img_ground, col_sym ? n_sym : 0, col_wide, col_sym);
   }
   return mats;
+}
+
+bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, const WakeGeometry& wake) {
+  return PlanMirror(lat, points, wake).mirrored;
 }
 
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
                                   const WakeGeometry& wake) {
   const std::size_t np = points.size(), ns = lat.panels();
-  const auto k = static_cast<std::size_t>(gamma.cols());
+  const Eigen::Index k = gamma.cols();
   SKEIN_ASSERT(static_cast<std::size_t>(gamma.rows()) == ns);
-  // Circulations row-major (panel-major) so the accumulation over columns is contiguous.
-  std::vector<double> g(ns * k);
-  for (std::size_t j = 0; j < ns; ++j)
-    for (std::size_t c = 0; c < k; ++c)
-      g[j * k + c] = gamma(static_cast<Eigen::Index>(j), static_cast<Eigen::Index>(c));
   InducedVelocity out;
-  out.u.setZero(static_cast<Eigen::Index>(np), static_cast<Eigen::Index>(k));
-  out.v.setZero(static_cast<Eigen::Index>(np), static_cast<Eigen::Index>(k));
-  out.w.setZero(static_cast<Eigen::Index>(np), static_cast<Eigen::Index>(k));
-  std::vector<Source> sources(ns);
-  for (std::size_t j = 0; j < ns; ++j) sources[j] = LoadSource(lat, j, wake);
-  const auto npi = static_cast<std::ptrdiff_t>(np);
+  out.u.setZero(static_cast<Eigen::Index>(np), k);
+  out.v.setZero(static_cast<Eigen::Index>(np), k);
+  out.w.setZero(static_cast<Eigen::Index>(np), k);
+  if (np == 0 || ns == 0 || k == 0) return out;
+
+  const MirrorPlan plan = PlanMirror(lat, points, wake);
+  const bool ground = wake.ground.enabled;
+  ShoeTable table, table_ground;
+  for (std::size_t j : plan.order) {
+    const Shoe s = LoadShoe(lat, j, wake);
+    table.Add(s);
+    if (ground) table_ground.Add(GroundImage(s, wake));
+  }
+  if (!ground) table_ground = table;  // read by nothing; keeps the pointers valid
+  // Circulations in table order; mirrored, a second block with the halves exchanged (see the file comment).
+  const auto nsi = static_cast<Eigen::Index>(ns);
+  Eigen::MatrixXd g(nsi, plan.mirrored ? 2 * k : k);
+  for (Eigen::Index r = 0; r < nsi; ++r) g.row(r).head(k) = gamma.row(static_cast<Eigen::Index>(plan.order[static_cast<std::size_t>(r)]));
+  if (plan.mirrored) {
+    const auto given = static_cast<Eigen::Index>(plan.given);
+    g.block(0, k, given, k) = g.block(given, 0, given, k);
+    g.block(given, k, given, k) = g.block(0, 0, given, k);
+    g.block(2 * given, k, nsi - 2 * given, k) = -g.block(2 * given, 0, nsi - 2 * given, k);
+  }
+
+  const Kernels kernels = KernelsFor(ground);
+  constexpr std::size_t kBlock = 16;
+  const std::size_t nt = plan.targets.size();
+  const auto nblocks = static_cast<std::ptrdiff_t>((nt + kBlock - 1) / kBlock);
+  using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
 #pragma omp parallel
   {
-    std::vector<double> ku(ns), kv(ns), kw(ns), acc(3 * k);
-#pragma omp for schedule(static)
-    for (std::ptrdiff_t pp = 0; pp < npi; ++pp) {
-      const auto p = static_cast<std::size_t>(pp);
-      const double x = points.x[p], y = points.y[p], z = points.z[p];
-      for (std::size_t j = 0; j < ns; ++j) {
-        double u = 0.0, v = 0.0, w = 0.0;
-        SourceVelocity(sources[j], x, y, z, u, v, w);
-        ku[j] = u;
-        kv[j] = v;
-        kw[j] = w;
+    RowMatrix rows(static_cast<Eigen::Index>(3 * kBlock), nsi);
+    Eigen::MatrixXd prod(static_cast<Eigen::Index>(3 * kBlock), g.cols());
+#pragma omp for schedule(dynamic, 1)
+    for (std::ptrdiff_t blk = 0; blk < nblocks; ++blk) {
+      const std::size_t first = static_cast<std::size_t>(blk) * kBlock;
+      const std::size_t count = std::min(kBlock, nt - first);
+      const auto c = static_cast<Eigen::Index>(count);
+      for (std::size_t q = 0; q < count; ++q) {
+        const std::size_t p = plan.targets[first + q].first;
+        const auto qi = static_cast<Eigen::Index>(q);
+        kernels.row(table, table_ground, points.x[p], points.y[p], points.z[p], rows.row(qi).data(),
+                    rows.row(c + qi).data(), rows.row(2 * c + qi).data());
       }
-      std::fill(acc.begin(), acc.end(), 0.0);
-      for (std::size_t j = 0; j < ns; ++j) {
-        const double* gj = &g[j * k];
-        for (std::size_t c = 0; c < k; ++c) {
-          acc[c] += ku[j] * gj[c];
-          acc[k + c] += kv[j] * gj[c];
-          acc[2 * k + c] += kw[j] * gj[c];
-        }
-      }
-      for (std::size_t c = 0; c < k; ++c) {
-        out.u(pp, static_cast<Eigen::Index>(c)) = acc[c];
-        out.v(pp, static_cast<Eigen::Index>(c)) = acc[k + c];
-        out.w(pp, static_cast<Eigen::Index>(c)) = acc[2 * k + c];
+      // Sequential inside the thread, sizes fixed by the block: the same sums whatever the thread count.
+      prod.topRows(3 * c).noalias() = rows.topRows(3 * c) * g;
+      for (std::size_t q = 0; q < count; ++q) {
+        const auto [p, m] = plan.targets[first + q];
+        const auto qi = static_cast<Eigen::Index>(q);
+        const auto pi = static_cast<Eigen::Index>(p);
+        out.u.row(pi) = prod.row(qi).head(k);
+        out.v.row(pi) = prod.row(c + qi).head(k);
+        out.w.row(pi) = prod.row(2 * c + qi).head(k);
+        if (m < 0) continue;
+        const auto mi = static_cast<Eigen::Index>(m);
+        out.u.row(mi) = prod.row(qi).tail(k);
+        out.v.row(mi) = -prod.row(c + qi).tail(k);
+        out.w.row(mi) = prod.row(2 * c + qi).tail(k);
       }
     }
   }

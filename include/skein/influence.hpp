@@ -55,4 +55,12 @@ struct InducedVelocity {
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
                                   const WakeGeometry& wake);
 
+/// True when InducedVelocityAt takes its mirror path for these arguments: `points` holds one point per panel,
+/// and the lattice, the points and the wake are bit-exact mirror images of themselves (every mirrored panel's
+/// horseshoe and point reflect its given panel's, unpaired panels lie in the plane y = 0, the trailing legs
+/// have no sideways component). The horseshoes are then evaluated at the given half's points only and the
+/// velocities at the mirrored points follow by reflection (influence.cpp); the answer is the same to
+/// round-off, the work about half.
+bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, const WakeGeometry& wake);
+
 }  // namespace skein

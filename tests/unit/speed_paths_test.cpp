@@ -1,0 +1,372 @@
+// Tests for the fast paths of influence.cpp: the assembly and the induced-velocity pass give the answers of a
+// straightforward implementation written out here (one AddHorseshoeVelocity call per source and target), to
+// 1e-12 of the largest value in each column, and bit-for-bit the same answers on 1 and 2 threads. They never
+// look at times.
+#include <algorithm>
+#include <cmath>
+#include <cstring>
+#include <string>
+#include <vector>
+
+#include <Eigen/Core>
+#include <gtest/gtest.h>
+#include <omp.h>
+
+#include "skein/biot_savart.hpp"
+#include "skein/case.hpp"
+#include "skein/influence.hpp"
+#include "skein/lattice.hpp"
+
+namespace skein {
+namespace {
+
+constexpr double kRelative = 1e-12;
+
+// ---- configurations ------------------------------------------------------------------------------------
+
+Section At(double x, double y, double z, double chord, double twist_deg = 0.0) {
+  Section s;
+  s.leading_edge = {x, y, z};
+  s.chord = chord;
+  s.twist_deg = twist_deg;
+  return s;
+}
+
+MeshOptions Mesh(int chordwise, int spanwise) {
+  MeshOptions m;
+  m.chordwise = chordwise;
+  m.spanwise = spanwise;
+  m.chordwise_spacing = Spacing::cosine;
+  m.spanwise_spacing = Spacing::cosine;
+  m.wake = WakeDirection::x_axis;
+  return m;
+}
+
+/// A tapered, swept, twisted wing with dihedral and NACA 2412 camber (symmetric unless told otherwise).
+Surface Wing(int chordwise, int spanwise, bool symmetric = true, double root_y = 0.0) {
+  Surface s;
+  s.name = "wing";
+  s.symmetric = symmetric;
+  s.mesh = Mesh(chordwise, spanwise);
+  Camber c;
+  c.kind = Camber::Kind::naca4;
+  c.max_camber = 0.02;
+  c.max_camber_position = 0.4;
+  c.spelling = "NACA 2412";
+  Section root = At(0.0, root_y, 0.0, 1.2, 2.0);
+  Section tip = At(0.9, 4.0, 0.35, 0.5, -1.5);
+  root.camber = c;
+  tip.camber = c;
+  s.sections = {root, tip};
+  return s;
+}
+
+/// A fin in the plane y = 0 behind the wing (a surface whose horseshoes are their own mirror images).
+Surface Fin(int chordwise, int spanwise) {
+  Surface s;
+  s.name = "fin";
+  s.symmetric = false;
+  s.mesh = Mesh(chordwise, spanwise);
+  s.sections = {At(4.0, 0.0, 0.1, 1.0), At(4.6, 0.0, 1.4, 0.6)};
+  return s;
+}
+
+Case CaseOf(std::vector<Surface> surfaces) {
+  Case c;
+  c.title = "speed paths";
+  c.mesh = surfaces.front().mesh;
+  c.surfaces = std::move(surfaces);
+  c.reference.area = 6.0;
+  c.reference.span = 8.0;
+  c.reference.chord = 0.9;
+  return c;
+}
+
+WakeGeometry XAxisWake(bool ground = false) {
+  WakeGeometry w;
+  if (ground) {
+    w.ground.enabled = true;
+    w.ground.height_z = -0.8;
+  }
+  return w;
+}
+
+WakeGeometry SideslipWake() {
+  WakeGeometry w;
+  const double a = 0.07, b = 0.05;
+  w.direction = {std::cos(a) * std::cos(b), -std::sin(b), std::sin(a) * std::cos(b)};
+  return w;
+}
+
+// ---- the straightforward implementation ------------------------------------------------------------------
+
+struct Velocity {
+  double u = 0.0, v = 0.0, w = 0.0;
+};
+
+/// Velocity at P of lattice horseshoe j and, with a ground plane, of its image (reflected in z = h, points in
+/// reversed order, legs along the reflected direction), one AddHorseshoeVelocity call each.
+Velocity ReferenceHorseshoe(const Lattice& lat, std::size_t j, const WakeGeometry& wake, double px, double py,
+                            double pz) {
+  const double a[3] = {lat.a.x[j], lat.a.y[j], lat.a.z[j]};
+  const double b[3] = {lat.b.x[j], lat.b.y[j], lat.b.z[j]};
+  const double ta[3] = {lat.te_a.x[j], lat.te_a.y[j], lat.te_a.z[j]};
+  const double tb[3] = {lat.te_b.x[j], lat.te_b.y[j], lat.te_b.z[j]};
+  const double d[3] = {wake.direction[0], wake.direction[1], wake.direction[2]};
+  Velocity out;
+  AddHorseshoeVelocity(px, py, pz, a, b, ta, tb, d, lat.core4[j], out.u, out.v, out.w);
+  if (wake.ground.enabled) {
+    const double h2 = 2.0 * wake.ground.height_z;
+    const double ga[3] = {b[0], b[1], h2 - b[2]}, gb[3] = {a[0], a[1], h2 - a[2]};
+    const double gta[3] = {tb[0], tb[1], h2 - tb[2]}, gtb[3] = {ta[0], ta[1], h2 - ta[2]};
+    const double gd[3] = {d[0], d[1], -d[2]};
+    AddHorseshoeVelocity(px, py, pz, ga, gb, gta, gtb, gd, lat.core4[j], out.u, out.v, out.w);
+  }
+  return out;
+}
+
+/// A_ij = n_i . v_j(P_i) over a layout's panels; a mirrored layout adds (symmetric) or subtracts
+/// (antisymmetric) the image column, a panel without an image enters once.
+Eigen::MatrixXd ReferenceMatrix(const Lattice& lat, const SystemLayout& layout, const WakeGeometry& wake) {
+  const std::size_t n = layout.panel.size();
+  Eigen::MatrixXd m(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
+  const double sign = layout.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
+  for (std::size_t i = 0; i < n; ++i) {
+    const std::size_t p = layout.panel[i];
+    const double px = lat.control.x[p], py = lat.control.y[p], pz = lat.control.z[p];
+    for (std::size_t j = 0; j < n; ++j) {
+      const Velocity v = ReferenceHorseshoe(lat, layout.panel[j], wake, px, py, pz);
+      double entry = v.u * lat.normal.x[p] + v.v * lat.normal.y[p] + v.w * lat.normal.z[p];
+      if (layout.kind != SystemLayout::Kind::full && layout.image[j] >= 0) {
+        const Velocity vi = ReferenceHorseshoe(lat, static_cast<std::size_t>(layout.image[j]), wake, px, py, pz);
+        entry += sign * (vi.u * lat.normal.x[p] + vi.v * lat.normal.y[p] + vi.w * lat.normal.z[p]);
+      }
+      m(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = entry;
+    }
+  }
+  return m;
+}
+
+InducedVelocity ReferenceVelocity(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
+                                  const WakeGeometry& wake) {
+  const auto np = static_cast<Eigen::Index>(points.size());
+  InducedVelocity out;
+  out.u.setZero(np, gamma.cols());
+  out.v.setZero(np, gamma.cols());
+  out.w.setZero(np, gamma.cols());
+  for (Eigen::Index p = 0; p < np; ++p) {
+    const auto pp = static_cast<std::size_t>(p);
+    for (std::size_t j = 0; j < lat.panels(); ++j) {
+      const Velocity v = ReferenceHorseshoe(lat, j, wake, points.x[pp], points.y[pp], points.z[pp]);
+      for (Eigen::Index c = 0; c < gamma.cols(); ++c) {
+        const double g = gamma(static_cast<Eigen::Index>(j), c);
+        out.u(p, c) += v.u * g;
+        out.v(p, c) += v.v * g;
+        out.w(p, c) += v.w * g;
+      }
+    }
+  }
+  return out;
+}
+
+// ---- helpers ---------------------------------------------------------------------------------------------
+
+/// Largest |fast - reference| in any column, divided by that column's largest |reference|.
+double WorstColumnError(const Eigen::MatrixXd& fast, const Eigen::MatrixXd& ref) {
+  EXPECT_EQ(fast.rows(), ref.rows());
+  EXPECT_EQ(fast.cols(), ref.cols());
+  if (fast.rows() != ref.rows() || fast.cols() != ref.cols()) return 1.0;
+  double worst = 0.0;
+  for (Eigen::Index c = 0; c < ref.cols(); ++c) {
+    const double scale = ref.col(c).cwiseAbs().maxCoeff();
+    const double err = (fast.col(c) - ref.col(c)).cwiseAbs().maxCoeff();
+    if (scale > 0.0) {
+      worst = std::max(worst, err / scale);
+    } else if (err > 0.0) {
+      return 1.0;  // a column that should be zero is not
+    }
+  }
+  return worst;
+}
+
+bool BitIdentical(const Eigen::MatrixXd& a, const Eigen::MatrixXd& b) {
+  return a.rows() == b.rows() && a.cols() == b.cols() &&
+         std::memcmp(a.data(), b.data(), sizeof(double) * static_cast<std::size_t>(a.size())) == 0;
+}
+
+/// Circulations with no symmetry at all (and one column that is exactly symmetric, one antisymmetric).
+Eigen::MatrixXd SomeCirculations(const Lattice& lat, int columns) {
+  const auto n = static_cast<Eigen::Index>(lat.panels());
+  Eigen::MatrixXd g(n, columns);
+  for (Eigen::Index j = 0; j < n; ++j)
+    for (Eigen::Index c = 0; c < columns; ++c)
+      g(j, c) = std::sin(0.37 * static_cast<double>(j) + 1.3 * static_cast<double>(c)) + 0.2 * static_cast<double>(c);
+  for (std::size_t j = 0; j < lat.panels(); ++j) {
+    const int m = lat.mirror_of[j];
+    if (m < 0) continue;
+    const auto ji = static_cast<Eigen::Index>(j), mi = static_cast<Eigen::Index>(m);
+    g(ji, 0) = g(mi, 0);
+    g(ji, 1) = -g(mi, 1);
+  }
+  return g;
+}
+
+PointArray BoundMidpoints(const Lattice& lat) {
+  PointArray mid;
+  mid.resize(lat.panels());
+  for (std::size_t i = 0; i < lat.panels(); ++i) {
+    mid.x[i] = 0.5 * (lat.a.x[i] + lat.b.x[i]);
+    mid.y[i] = 0.5 * (lat.a.y[i] + lat.b.y[i]);
+    mid.z[i] = 0.5 * (lat.a.z[i] + lat.b.z[i]);
+  }
+  return mid;
+}
+
+/// Points off the lattice, with no mirror structure: above, below and beside it, and behind it in the wake.
+PointArray ScatteredPoints(std::size_t n) {
+  PointArray p;
+  for (std::size_t k = 0; k < n; ++k) {
+    const double t = static_cast<double>(k);
+    p.push_back({-1.0 + 0.061 * t, -4.5 + 0.093 * t, 0.6 * std::sin(0.7 * t)});
+  }
+  return p;
+}
+
+void ExpectVelocityMatches(const Lattice& lat, const PointArray& points, const WakeGeometry& wake,
+                           const std::string& what) {
+  const Eigen::MatrixXd gamma = SomeCirculations(lat, 7);
+  const InducedVelocity fast = InducedVelocityAt(lat, points, gamma, wake);
+  const InducedVelocity ref = ReferenceVelocity(lat, points, gamma, wake);
+  EXPECT_LE(WorstColumnError(fast.u, ref.u), kRelative) << what << ": u";
+  EXPECT_LE(WorstColumnError(fast.v, ref.v), kRelative) << what << ": v";
+  EXPECT_LE(WorstColumnError(fast.w, ref.w), kRelative) << what << ": w";
+}
+
+void ExpectAssemblyMatches(const Lattice& lat, const WakeGeometry& wake, bool allow_split,
+                           std::size_t expected_layouts, const std::string& what) {
+  const std::vector<SystemLayout> layouts = ChooseLayouts(lat, wake, allow_split);
+  ASSERT_EQ(layouts.size(), expected_layouts) << what;
+  const std::vector<Eigen::MatrixXd> fast = AssembleInfluence(lat, layouts, wake);
+  ASSERT_EQ(fast.size(), layouts.size());
+  for (std::size_t l = 0; l < layouts.size(); ++l) {
+    const Eigen::MatrixXd ref = ReferenceMatrix(lat, layouts[l], wake);
+    EXPECT_LE(WorstColumnError(fast[l], ref), kRelative) << what << ", layout " << l;
+  }
+}
+
+// ---- assembly --------------------------------------------------------------------------------------------
+
+TEST(SpeedPaths, AssemblyMatchesReferenceForTheHalfModelPair) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14)}));
+  ExpectAssemblyMatches(lat, XAxisWake(), true, 2, "wing, free air");
+  ExpectAssemblyMatches(lat, XAxisWake(true), true, 2, "wing, ground plane");
+}
+
+TEST(SpeedPaths, AssemblyMatchesReferenceForTheFullModel) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(5, 12)}));
+  ExpectAssemblyMatches(lat, XAxisWake(), false, 1, "wing, split refused");
+  ExpectAssemblyMatches(lat, SideslipWake(), true, 1, "wing, sideslipping wake");
+  WakeGeometry ground = SideslipWake();
+  ground.ground.enabled = true;
+  ground.ground.height_z = -0.6;
+  ExpectAssemblyMatches(lat, ground, true, 1, "wing, sideslipping wake over the ground");
+}
+
+TEST(SpeedPaths, AssemblyMatchesReferenceWithACentreLineFin) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(5, 12), Fin(4, 6)}));
+  ExpectAssemblyMatches(lat, XAxisWake(), true, 2, "wing and fin");
+  ExpectAssemblyMatches(lat, XAxisWake(true), true, 2, "wing and fin, ground plane");
+}
+
+TEST(SpeedPaths, AssemblyMatchesReferenceForAnAsymmetricLattice) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(5, 16, false, 0.3)}));
+  ExpectAssemblyMatches(lat, XAxisWake(), true, 1, "one-sided wing");
+}
+
+// ---- induced velocity ------------------------------------------------------------------------------------
+
+TEST(SpeedPaths, MirrorPathIsTakenExactlyWhenTheTargetsAreMirrorImages) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(5, 12), Fin(4, 6)}));
+  const PointArray mid = BoundMidpoints(lat);
+  EXPECT_TRUE(InducedVelocityUsesMirror(lat, mid, XAxisWake()));
+  EXPECT_TRUE(InducedVelocityUsesMirror(lat, lat.control, XAxisWake(true)));
+  EXPECT_FALSE(InducedVelocityUsesMirror(lat, mid, SideslipWake()));
+  EXPECT_FALSE(InducedVelocityUsesMirror(lat, ScatteredPoints(lat.panels()), XAxisWake()));
+  PointArray nudged = mid;  // one mirrored point off by one unit in the last place: no longer a mirror image
+  const auto m = static_cast<std::size_t>(std::find_if(lat.mirror_of.begin(), lat.mirror_of.end(),
+                                                       [](int g) { return g >= 0; }) -
+                                          lat.mirror_of.begin());
+  ASSERT_LT(m, lat.panels());
+  nudged.x[m] = std::nextafter(nudged.x[m], 1e9);
+  EXPECT_FALSE(InducedVelocityUsesMirror(lat, nudged, XAxisWake()));
+  const Lattice one_sided = BuildLattice(CaseOf({Wing(4, 8, false, 0.3)}));
+  EXPECT_FALSE(InducedVelocityUsesMirror(one_sided, BoundMidpoints(one_sided), XAxisWake()));
+}
+
+TEST(SpeedPaths, VelocityMatchesReferenceOnTheMirrorPath) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14), Fin(4, 6)}));
+  ExpectVelocityMatches(lat, BoundMidpoints(lat), XAxisWake(), "bound midpoints");
+  ExpectVelocityMatches(lat, lat.control, XAxisWake(), "control points");
+  ExpectVelocityMatches(lat, BoundMidpoints(lat), XAxisWake(true), "bound midpoints, ground plane");
+}
+
+TEST(SpeedPaths, VelocityMatchesReferenceOnTheGeneralPath) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14), Fin(4, 6)}));
+  ExpectVelocityMatches(lat, BoundMidpoints(lat), SideslipWake(), "bound midpoints, sideslipping wake");
+  ExpectVelocityMatches(lat, ScatteredPoints(37), XAxisWake(), "scattered points");
+  ExpectVelocityMatches(lat, ScatteredPoints(53), XAxisWake(true), "scattered points, ground plane");
+  const Lattice one_sided = BuildLattice(CaseOf({Wing(5, 16, false, 0.3)}));
+  ExpectVelocityMatches(one_sided, BoundMidpoints(one_sided), XAxisWake(), "one-sided wing");
+}
+
+TEST(SpeedPaths, VelocityOfNoColumnsOrNoPointsIsEmpty) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(3, 4)}));
+  const InducedVelocity none = InducedVelocityAt(lat, BoundMidpoints(lat), Eigen::MatrixXd(static_cast<Eigen::Index>(lat.panels()), 0),
+                                                 XAxisWake());
+  EXPECT_EQ(none.u.rows(), static_cast<Eigen::Index>(lat.panels()));
+  EXPECT_EQ(none.u.cols(), 0);
+  const InducedVelocity nowhere = InducedVelocityAt(lat, PointArray{}, SomeCirculations(lat, 3), XAxisWake());
+  EXPECT_EQ(nowhere.w.rows(), 0);
+  EXPECT_EQ(nowhere.w.cols(), 3);
+}
+
+// ---- thread independence ---------------------------------------------------------------------------------
+
+/// Runs f with 1 and then 2 OpenMP threads and restores the previous setting.
+template <class F>
+auto OnThreads(int threads, F f) {
+  const int before = omp_get_max_threads();
+  omp_set_num_threads(threads);
+  auto r = f();
+  omp_set_num_threads(before);
+  return r;
+}
+
+TEST(SpeedPaths, AssemblyIsBitIdenticalOnOneAndTwoThreads) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 20), Fin(4, 6)}));
+  for (const WakeGeometry& wake : {XAxisWake(), XAxisWake(true), SideslipWake()}) {
+    const std::vector<SystemLayout> layouts = ChooseLayouts(lat, wake);
+    const auto one = OnThreads(1, [&] { return AssembleInfluence(lat, layouts, wake); });
+    const auto two = OnThreads(2, [&] { return AssembleInfluence(lat, layouts, wake); });
+    ASSERT_EQ(one.size(), two.size());
+    for (std::size_t l = 0; l < one.size(); ++l) EXPECT_TRUE(BitIdentical(one[l], two[l])) << "layout " << l;
+  }
+}
+
+TEST(SpeedPaths, VelocityIsBitIdenticalOnOneAndTwoThreads) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 20), Fin(4, 6)}));
+  const Eigen::MatrixXd gamma = SomeCirculations(lat, 13);
+  const PointArray mid = BoundMidpoints(lat), scattered = ScatteredPoints(301);
+  for (const WakeGeometry& wake : {XAxisWake(), XAxisWake(true), SideslipWake()}) {
+    for (const PointArray* points : {&mid, &scattered}) {
+      const auto one = OnThreads(1, [&] { return InducedVelocityAt(lat, *points, gamma, wake); });
+      const auto two = OnThreads(2, [&] { return InducedVelocityAt(lat, *points, gamma, wake); });
+      EXPECT_TRUE(BitIdentical(one.u, two.u));
+      EXPECT_TRUE(BitIdentical(one.v, two.v));
+      EXPECT_TRUE(BitIdentical(one.w, two.w));
+    }
+  }
+}
+
+}  // namespace
+}  // namespace skein
