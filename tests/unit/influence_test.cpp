@@ -153,6 +153,32 @@ TEST(HalfModel, IsNotUsedWhenTheMirrorImageIsADifferentAircraft) {
   EXPECT_EQ(Solve(c, true, WakeFor(c, 4.0, 0.0)).layouts.size(), 1u);
 }
 
+TEST(Influence, NoAirCrossesTheGroundPlaneOrTheSymmetryPlane) {
+  // Image method: a horseshoe and its reflection in z = h (reversed, same circulation) induce no velocity
+  // normal to that plane on it; and a symmetric load on a mirrored wing induces no sidewash on y = 0.
+  for (const WakeDirection wake : {WakeDirection::x_axis, WakeDirection::freestream}) {
+    Case c = testing::WingCase(AwkwardWing(wake), {6.0});
+    c.ground.enabled = true;
+    c.ground.height_z = -0.8;
+    const Lattice lat = BuildLattice(c);
+    const WakeGeometry w = WakeFor(c, 6.0, 0.0);
+    const BasisSolution sol = SolveBasis(lat, c.reference.moment_point, w, {});
+    PointArray ground, centre;
+    for (double x : {-1.0, 0.3, 1.1, 4.0})
+      for (double y : {-3.0, 0.0, 0.7, 4.4}) {
+        ground.push_back({x, y, -0.8});
+        centre.push_back({x, 0.0, y * 0.1 + 0.2});
+      }
+    const Eigen::MatrixXd lift = sol.gamma.col(2);  // the uniform w field: symmetric, lifting
+    const InducedVelocity vg = InducedVelocityAt(lat, ground, lift, w);
+    const InducedVelocity vc = InducedVelocityAt(lat, centre, lift, w);
+    EXPECT_LT(vg.w.cwiseAbs().maxCoeff(), 1e-12) << ToString(wake);
+    EXPECT_GT(vg.u.cwiseAbs().maxCoeff(), 1e-3);  // the plane does see the wing
+    EXPECT_LT(vc.v.cwiseAbs().maxCoeff(), 1e-12);
+    EXPECT_GT(vc.w.cwiseAbs().maxCoeff(), 1e-3);
+  }
+}
+
 TEST(Threads, OneAndTwoThreadsGiveBitIdenticalCirculations) {
   Case c = testing::TestAircraft(WakeDirection::x_axis, 2);
   c.flight.beta_deg = {3.0};
