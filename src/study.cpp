@@ -258,4 +258,221 @@ std::vector<double> MinimumDragLoading(const Lattice& lat, int surface, const Ei
   return std::vector<double>(g.data(), g.data() + g.size());
 }
 
+double RootBendingCoefficient(const Lattice& lat, const Case& c, const PointResult& p, int surface) {
+  SKEIN_ASSERT(surface >= 0 && static_cast<std::size_t>(surface) < lat.surfaces.size() &&
+               static_cast<std::size_t>(surface) < p.surfaces.size());
+  const auto su = static_cast<std::size_t>(surface);
+  const LatticeSurface& ls = lat.surfaces[su];
+  const StripLoads& sl = p.surfaces[su].strips;
+  SKEIN_ASSERT(sl.cl.size() == ls.strips);
+  const Vec3 root = c.surfaces[su].sections.front().leading_edge;
+  double m = 0.0;
+  for (std::size_t k = 0; k < ls.strips; ++k) {
+    const Strip& st = lat.strips[ls.first_strip + k];
+    if (!(st.quarter_chord[1] > root[1])) continue;
+    const double force = sl.cl[k] * 0.5 * st.chord * st.width;  // V = rho = 1: q = 1/2
+    const double dy = st.quarter_chord[1] - root[1], dz = st.quarter_chord[2] - root[2];
+    m += force * (dy * st.normal[2] - dz * st.normal[1]);
+  }
+  return m / (0.5 * c.reference.area * c.reference.span);
+}
+
+namespace {
+
+int SurfaceIndex(const Case& c, const std::string& name) {
+  if (c.surfaces.empty()) throw InputError(c.source_path, {}, "the case has no surface");
+  if (name.empty()) return 0;
+  for (std::size_t i = 0; i < c.surfaces.size(); ++i)
+    if (c.surfaces[i].name == name) return static_cast<int>(i);
+  std::string names;
+  for (const Surface& s : c.surfaces) names += (names.empty() ? "\"" : ", \"") + s.name + "\"";
+  throw InputError(c.source_path, {}, fmt::format("no surface named \"{}\" (the case has {})", name, names));
+}
+
+/// Arc-length fraction (in the yz plane) of each section of a surface, root 0 to tip 1.
+std::vector<double> SectionArcFractions(const Surface& s) {
+  std::vector<double> u{0.0};
+  for (std::size_t k = 0; k + 1 < s.sections.size(); ++k) {
+    const Vec3 d = s.sections[k + 1].leading_edge - s.sections[k].leading_edge;
+    u.push_back(u.back() + std::hypot(d[1], d[2]));
+  }
+  const double total = u.back();
+  for (double& v : u) v /= total;
+  return u;
+}
+
+/// The surface with sections inserted at arc fractions sin(pi/2 j/(n-1)) where a segment allows it.
+Surface InsertStations(const Surface& s, int stations) {
+  Surface out = s;
+  if (stations < 3) return out;
+  const std::vector<double> u = SectionArcFractions(s);
+  // Targets closer than a quarter of their spacing to a section are dropped.
+  const double min_gap = 0.25 / (stations - 1);
+  std::vector<std::pair<double, Section>> added;
+  for (int j = 1; j + 1 < stations; ++j) {
+    const double target = static_cast<double>(j) / (stations - 1);
+    bool near = false;
+    for (double v : u) near = near || std::abs(v - target) < min_gap;
+    if (near) continue;
+    std::size_t k = 0;
+    while (k + 2 < u.size() && u[k + 1] < target) ++k;
+    const Section& a = s.sections[k];
+    const Section& b = s.sections[k + 1];
+    if (a.spanwise || a.camber.spelling != b.camber.spelling) continue;
+    const double t = (target - u[k]) / (u[k + 1] - u[k]);
+    Section sec = a;
+    sec.leading_edge = Lerp(a.leading_edge, b.leading_edge, t);
+    sec.chord = a.chord + t * (b.chord - a.chord);
+    sec.twist_deg = a.twist_deg + t * (b.twist_deg - a.twist_deg);
+    added.emplace_back(target, sec);
+  }
+  std::vector<std::pair<double, Section>> all;
+  for (std::size_t k = 0; k < s.sections.size(); ++k) all.emplace_back(u[k], s.sections[k]);
+  all.insert(all.end(), added.begin(), added.end());
+  std::stable_sort(all.begin(), all.end(), [](const auto& l, const auto& r) { return l.first < r.first; });
+  out.sections.clear();
+  for (auto& [v, sec] : all) out.sections.push_back(sec);
+  return out;
+}
+
+struct Evaluation {
+  DesignState state;
+  Eigen::VectorXd gamma;  ///< strip circulations, lattice order
+  Lattice lattice;
+};
+
+Evaluation Evaluate(const Case& c, int surface, const RunOptions& ro) {
+  Evaluation e;
+  const Results r = Run(c, ro);
+  const PointResult& p = r.points.front();
+  e.lattice = BuildLattice(c);
+  e.state.alpha_deg = p.alpha_deg;
+  e.state.CL = p.CL;
+  e.state.CD_induced = p.CD_induced;
+  e.state.span_efficiency = p.span_efficiency;
+  e.state.root_bending = RootBendingCoefficient(e.lattice, c, p, surface);
+  std::vector<double> g;
+  for (const SurfaceLoads& s : p.surfaces) g.insert(g.end(), s.strips.gamma.begin(), s.strips.gamma.end());
+  e.gamma = Eigen::Map<const Eigen::VectorXd>(g.data(), static_cast<Eigen::Index>(g.size()));
+  return e;
+}
+
+/// The design variables x: x[0] the angle of attack (deg), x[k] the twist of section k >= 1 (deg). The root
+/// section keeps its twist: with the angle of attack free it adds nothing, and twisting a root section that
+/// has dihedral tilts it off the plane of symmetry.
+void SetVariables(Case& c, int surface, const std::vector<double>& x) {
+  c.flight.alpha_deg = {x[0]};
+  auto& secs = c.surfaces[static_cast<std::size_t>(surface)].sections;
+  for (std::size_t k = 1; k < secs.size(); ++k) secs[k].twist_deg = x[k];
+}
+
+}  // namespace
+
+TwistDesign DesignTwist(const Case& c, const TwistDesignOptions& o) {
+  if (!std::isfinite(o.target_CL) || std::abs(o.target_CL) < 1e-6)
+    throw InputError(c.source_path, {}, fmt::format("the target CL must be finite and non-zero, got {}", o.target_CL));
+  const int si = SurfaceIndex(c, o.surface);
+  const auto su = static_cast<std::size_t>(si);
+  if (!c.surfaces[su].symmetric)
+    throw InputError(c.source_path, c.surfaces[su].where,
+                     fmt::format("surface \"{}\" is not symmetric: twist design needs a mirrored surface",
+                                 c.surfaces[su].name));
+  TwistDesign out;
+  Case d = c;
+  d.flight.alpha_deg = {c.flight.alpha_deg.front()};
+  d.flight.beta_deg = {0.0};
+  d.surfaces[su] = InsertStations(c.surfaces[su], o.stations);
+  const std::size_t nsec = d.surfaces[su].sections.size();
+  const std::vector<double> u = SectionArcFractions(d.surfaces[su]);
+  out.station_eta = u;
+  for (const Section& sec : d.surfaces[su].sections) out.twist_before_deg.push_back(sec.twist_deg);
+
+  // The wing as given, at the angle of attack that gives the target CL.
+  Evaluation e = Evaluate(d, si, o.run);
+  for (int it = 0; it < 8 && std::abs(e.state.CL - o.target_CL) > 1e-12 * std::max(1.0, std::abs(o.target_CL));
+       ++it) {
+    const Results r = Run(d, o.run);
+    const double cla = r.points.front().derivatives.Get("CL_alpha").value_or(0.0);
+    if (!(std::abs(cla) > 1e-9))
+      throw InputError(c.source_path, {}, "CL does not change with alpha: the target CL cannot be reached");
+    const double next = d.flight.alpha_deg.front() + (o.target_CL - e.state.CL) / cla / kDegToRad;
+    if (!(std::abs(next) < 89.0))
+      throw InputError(c.source_path, {},
+                       fmt::format("reaching CL {} would need alpha {:.1f} deg", o.target_CL, next));
+    d.flight.alpha_deg = {next};
+    e = Evaluate(d, si, o.run);
+  }
+  out.before = e.state;
+  const double bending_ref = e.state.root_bending;
+  const double qs = 0.5 * c.reference.area;
+
+  std::vector<double> theta = out.twist_before_deg;
+  theta[0] = d.flight.alpha_deg.front();
+  const auto n = static_cast<Eigen::Index>(nsec);
+  for (out.iterations = 0; out.iterations < o.max_iterations;) {
+    SetVariables(d, si, theta);
+    const Evaluation base = Evaluate(d, si, o.run);
+    const WakeGeometry wake = WakeFor(d, theta[0], 0.0);
+    Eigen::MatrixXd S(base.gamma.size(), n);
+    Eigen::VectorXd g_cd(n), g_cl(n), g_bm(n);
+    for (Eigen::Index k = 0; k < n; ++k) {
+      std::vector<double> tp = theta, tm = theta;
+      tp[static_cast<std::size_t>(k)] += o.step_deg;
+      tm[static_cast<std::size_t>(k)] -= o.step_deg;
+      SetVariables(d, si, tp);
+      const Evaluation ep = Evaluate(d, si, o.run);
+      SetVariables(d, si, tm);
+      const Evaluation em = Evaluate(d, si, o.run);
+      const double h2 = 2.0 * o.step_deg;
+      S.col(k) = (ep.gamma - em.gamma) / h2;
+      g_cd(k) = (ep.state.CD_induced - em.state.CD_induced) / h2;
+      g_cl(k) = (ep.state.CL - em.state.CL) / h2;
+      g_bm(k) = (ep.state.root_bending - em.state.root_bending) / h2;
+    }
+    const Eigen::MatrixXd Q = TrefftzDragMatrix(base.lattice, wake);
+    const Eigen::MatrixXd H = 2.0 * S.transpose() * Q * S / qs;
+    auto step = [&](bool with_bending) {
+      const Eigen::Index nc = with_bending ? 2 : 1;
+      Eigen::MatrixXd kkt = Eigen::MatrixXd::Zero(n + nc, n + nc);
+      Eigen::VectorXd rhs = Eigen::VectorXd::Zero(n + nc);
+      kkt.topLeftCorner(n, n) = H;
+      kkt.block(0, n, n, 1) = g_cl;
+      kkt.block(n, 0, 1, n) = g_cl.transpose();
+      rhs.head(n) = -g_cd;
+      rhs(n) = o.target_CL - base.state.CL;
+      if (with_bending) {
+        kkt.block(0, n + 1, n, 1) = g_bm;
+        kkt.block(n + 1, 0, 1, n) = g_bm.transpose();
+        rhs(n + 1) = bending_ref - base.state.root_bending;
+      }
+      return Eigen::VectorXd(kkt.fullPivLu().solve(rhs).head(n));
+    };
+    Eigen::VectorXd delta = step(false);
+    out.bending_constraint_active = false;
+    if (o.keep_root_bending &&
+        base.state.root_bending + g_bm.dot(delta) > bending_ref + 1e-12 * std::max(1.0, std::abs(bending_ref))) {
+      delta = step(true);
+      out.bending_constraint_active = true;
+    }
+    if (!delta.allFinite()) throw NumericalError("twist design: the design system is singular");
+    for (std::size_t k = 0; k < nsec; ++k) theta[k] += delta(static_cast<Eigen::Index>(k));
+    ++out.iterations;
+    if (delta.cwiseAbs().maxCoeff() < o.tolerance_deg) {
+      out.converged = true;
+      break;
+    }
+  }
+  SetVariables(d, si, theta);
+  out.after = Evaluate(d, si, o.run).state;
+  out.twist_after_deg = theta;
+  out.twist_after_deg[0] = out.twist_before_deg[0];
+  if (!out.converged)
+    out.warnings.push_back(fmt::format("the twist design did not settle to {:g} deg in {} iterations",
+                                       o.tolerance_deg, out.iterations));
+  d.title = fmt::format("{} (twist designed for least induced drag at CL {:g}{})", c.title, o.target_CL,
+                        out.bending_constraint_active ? ", root bending held" : "");
+  out.designed = d;
+  return out;
+}
+
 }  // namespace skein::study

@@ -133,4 +133,58 @@ std::vector<double> MinimumDragLoading(const Lattice& lat, int surface, const Ei
                                        const Eigen::VectorXd& lift_vector, double lift,
                                        const Eigen::VectorXd* bending_vector, double bending);
 
+// ---------------------------------------------------------------------------------------------------------
+// Root bending moment
+
+/// Root bending moment coefficient of the right half (y > 0) of surface `surface`: the moment about the
+/// x axis through the surface's root (its first section's leading edge) of the strips' normal forces
+/// (Kutta-Joukowski, from the point's strip cl), over q S_ref b_ref. Positive when the right wing's load
+/// bends it up. `lat` must be the lattice the point was solved on.
+double RootBendingCoefficient(const Lattice& lat, const Case& c, const PointResult& p, int surface);
+
+// ---------------------------------------------------------------------------------------------------------
+// Twist design
+
+struct TwistDesignOptions {
+  double target_CL = 0.5;
+  std::string surface;              ///< surface whose twist is designed; "" = the first surface
+  int stations = 6;                 ///< design sections per half, equally spaced root to tip (inserted as needed)
+  bool keep_root_bending = false;   ///< hold the root bending moment at or below the wing-as-given's at target_CL
+  double step_deg = 0.05;           ///< finite-difference step of the twist sensitivities
+  int max_iterations = 15;
+  double tolerance_deg = 1e-6;      ///< stop when no twist moves by more than this in an iteration
+  RunOptions run;
+};
+
+/// One solved state of the design problem (symmetric flight, beta = 0).
+struct DesignState {
+  double alpha_deg = 0.0, CL = 0.0, CD_induced = 0.0, root_bending = 0.0;
+  std::optional<double> span_efficiency;
+};
+
+struct TwistDesign {
+  Case designed;                   ///< the case with the designed twists; its flight point is the design point
+  std::vector<double> station_eta;  ///< y / semi-span of each section of the designed surface
+  std::vector<double> twist_before_deg, twist_after_deg;  ///< per section of the designed surface (root kept)
+  DesignState before;              ///< the wing as given (with the inserted sections), alpha set for target_CL
+  DesignState after;               ///< the designed wing at its own angle of attack
+  bool bending_constraint_active = false;
+  int iterations = 0;
+  bool converged = false;
+  std::vector<std::string> warnings;
+};
+
+/// Designs the spanwise twist of one symmetric surface for least induced drag at options.target_CL.
+/// Sections are inserted in the surface (geometry unchanged: leading edge, chord and twist interpolated
+/// linearly, in segments whose two ends share a camber line and carry no fixed panel count) so that it has
+/// about options.stations design sections per half, equally spaced in span. The wing as given is first
+/// solved at the angle of attack that gives target_CL ("before"); then the angle of attack and the twist of
+/// every section but the root (which keeps its twist) are the unknowns. The strip
+/// circulations depend linearly on the twists and alpha (through the flow-basis solve, up to the small movement of the
+/// geometry), so the drag is a quadratic in the twists with Hessian 2 S' Q S (S the sensitivities, Q the
+/// Trefftz form) and the lift (and bending) constraints are linear: each iteration solves that KKT system
+/// exactly, with sensitivities by central differences of full solves, until the twists stop moving.
+/// Throws InputError for an unknown or non-symmetric surface, or a target the wing cannot reach.
+TwistDesign DesignTwist(const Case& c, const TwistDesignOptions& options);
+
 }  // namespace skein::study

@@ -87,6 +87,30 @@ struct SolveArgs {
   std::size_t refine_max_panels = 6000;
 };
 
+struct TwistArgs {
+  double cl = 0.0;
+  bool keep_root_bending = false;
+  std::string out;
+  std::string surface;
+  int stations = 6;
+};
+
+int RunTwist(const std::string& case_path, const TwistArgs& t) {
+  const skein::Case c = skein::ReadCaseFile(case_path);
+  skein::study::TwistDesignOptions o;
+  o.target_CL = t.cl;
+  o.keep_root_bending = t.keep_root_bending;
+  o.surface = t.surface;
+  o.stations = t.stations;
+  const skein::study::TwistDesign d = skein::study::DesignTwist(c, o);
+  StagedOutputs out({fs::path(case_path)});
+  if (!t.out.empty()) out.Add(t.out, [&](std::ostream& f) { skein::WriteCaseToml(d.designed, f); });
+  out.Commit();
+  skein::report::WriteTwistDesign(d, std::cout);
+  if (!t.out.empty()) std::cout << "Wrote " << t.out << '\n';
+  return 0;
+}
+
 int RunSolve(const SolveArgs& a) {
   using Clock = std::chrono::steady_clock;
   const auto t0 = Clock::now();
@@ -164,6 +188,18 @@ int main(int argc, char** argv) {
   solve->add_option("--refine-max-panels", a.refine_max_panels,
                     "largest mesh --refine may build (default 6000); beyond it the case's mesh is halved instead")
       ->type_name("N");
+  TwistArgs tw;
+  CLI::App* twist = app.add_subcommand(
+      "twist", "Design the spanwise twist of a wing for least induced drag at a target CL.\n"
+               "Example: skein twist cases/survey_drone.toml --cl 0.5 --out twisted.toml");
+  twist->add_option("CASE", a.case_path, "case file (TOML)")->required();
+  twist->add_option("--cl", tw.cl, "target lift coefficient")->required();
+  twist->add_flag("--keep-root-bending", tw.keep_root_bending,
+                  "hold the root bending moment at or below the wing-as-given's at the same CL");
+  twist->add_option("--out", tw.out, "write the case with the designed twist to FILE")->type_name("FILE");
+  twist->add_option("--surface", tw.surface, "surface to twist (default: the first)")->type_name("NAME");
+  twist->add_option("--stations", tw.stations, "design sections per half, root to tip (default 6)")
+      ->check(CLI::Range(2, 50));
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -172,6 +208,7 @@ int main(int argc, char** argv) {
   }
   try {
     if (*solve) return RunSolve(a);
+    if (*twist) return RunTwist(a.case_path, tw);
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;

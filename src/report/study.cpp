@@ -90,4 +90,33 @@ void WriteJsonWithConvergence(const Results& r, const study::ConvergenceStudy& s
   out << doc.dump(2) << '\n';
 }
 
+void WriteTwistDesign(const study::TwistDesign& d, std::ostream& out) {
+  out << fmt::format("Skein twist design: {}\n", d.designed.title);
+  out << fmt::format("Design point: CL {:.4f}, beta 0; the root section keeps its twist and the angle of attack\n"
+                     "is designed with the other sections' twists\n",
+                     d.before.CL);
+  out << "\n                     as given    designed    change\n";
+  auto row = [&](const char* name, double a, double b, int digits) {
+    out << fmt::format("  {:<16} {} {} {}\n", name, Cell(a, 10, digits), Cell(b, 11, digits), Cell(b - a, 9, digits));
+  };
+  row("alpha deg", d.before.alpha_deg, d.after.alpha_deg, 3);
+  row("CL", d.before.CL, d.after.CL, 5);
+  row("CD_induced", d.before.CD_induced, d.after.CD_induced, 6);
+  row("span efficiency", d.before.span_efficiency.value_or(NAN), d.after.span_efficiency.value_or(NAN), 4);
+  row("root bending", d.before.root_bending, d.after.root_bending, 5);
+  out << "  (root bending: moment of the right half's load about the x axis through the root, / (q S_ref b_ref))\n";
+  if (std::isfinite(d.before.CD_induced) && d.before.CD_induced > 0.0)
+    out << fmt::format("  induced drag {:+.2f} %\n", 100.0 * (d.after.CD_induced / d.before.CD_induced - 1.0));
+  if (d.bending_constraint_active) out << "  the root bending moment was held at the wing-as-given's value\n";
+  out << "\n  section   y/semi-span   twist as given   designed   (deg, nose up)\n";
+  for (std::size_t k = 0; k < d.station_eta.size(); ++k)
+    out << fmt::format("  {:>7} {:>13.4f} {:>16.3f} {:>10.3f}\n", k + 1, d.station_eta[k], d.twist_before_deg[k],
+                       d.twist_after_deg[k]);
+  out << fmt::format("\n  {} design iteration{}{}\n", d.iterations, d.iterations == 1 ? "" : "s",
+                     d.converged ? "" : " (not settled)");
+  for (const auto& w : d.warnings) out << "  Warning: " << w << '\n';
+  out << "  The figures are for this mesh; run `skein solve NEW.toml --refine` for mesh-converged values.\n\n";
+  WriteCautions(out);
+}
+
 }  // namespace skein::report

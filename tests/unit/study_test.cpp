@@ -3,6 +3,7 @@
 #include "skein/study.hpp"
 
 #include <cmath>
+#include <iostream>
 #include <random>
 #include <vector>
 
@@ -174,6 +175,115 @@ TEST(TrefftzForm, FormAgreesWithTheSolvedDragAndLift) {
   EXPECT_NEAR(g.dot(study::TrefftzDragMatrix(lat, wake) * g) / qs, r.points[0].CD_induced,
               1e-12 * r.points[0].CD_induced);
   EXPECT_NEAR(study::TrefftzLiftVector(lat, wake, 4.0).dot(g) / qs, r.points[0].CL, 5e-3 * r.points[0].CL);
+}
+
+// ----- Twist design -----
+
+/// A tapered, swept wing of our own invention (span 10 m, root chord 1.5 m, taper 0.3, 25 deg quarter-chord
+/// sweep), flat, untwisted, 4 x 32 panels per half with "sine" spanwise spacing (dense toward the tips only;
+/// see the note in DesignedTwistReachesEllipticSpanEfficiency), x-axis wake.
+Case DesignWing() {
+  return testing::WingCase(testing::TaperedWing(10.0, 1.5, 0.3, 25.0, testing::Mesh(4, 32, Spacing::sine)), {4.0});
+}
+
+const study::TwistDesign& DesignedWing() {
+  static const study::TwistDesign d = [] {
+    study::TwistDesignOptions o;
+    o.target_CL = 0.5;
+    return study::DesignTwist(DesignWing(), o);
+  }();
+  return d;
+}
+
+/// The point at CL `target`, moving the angle of attack (secant steps on CL_alpha: CL is almost linear).
+PointResult AtLift(Case c, double target) {
+  for (int it = 0; it < 4; ++it) {
+    const PointResult p = skein::Run(c, {}).points.front();
+    if (std::abs(p.CL - target) < 1e-12) return p;
+    c.flight.alpha_deg = {c.flight.alpha_deg.front() +
+                          (target - p.CL) / *p.derivatives.Get("CL_alpha") * 180.0 / 3.14159265358979323846};
+  }
+  return skein::Run(c, {}).points.front();
+}
+
+TEST(TwistDesign, DesignedTwistReachesEllipticSpanEfficiencyAtTheTargetLift) {
+  // Elliptic loading has the least induced drag of a planar wing at given lift and span, span efficiency 1
+  // (L. Prandtl, lifting-line theory, "Tragflügeltheorie", 1918-1919): the designed wing must come within
+  // half a percent of it. On one mesh the span efficiency carries a first-order discretisation error of
+  // about +1 % here (the near-field CL converges from above), enough to put even the untwisted wing above
+  // 0.995; so the check is on the mesh-converged value: Richardson extrapolation over three nested meshes
+  // (study::MeshConvergence), and the untwisted wing must fail the same check.
+  // Note: with "cosine" spanwise spacing (dense at the root as well) the designed twist reaches only 0.990
+  // mesh-converged: the discrete Trefftz-plane drag is biased where strips shrink toward the root, and the
+  // optimiser follows the bias (the elliptic loading sampled on cosine strips gives e = 0.993 at 800 strips
+  // per half, against 1.0005 on uniform and 1.0008 on sine strips).
+  const study::TwistDesign& d = DesignedWing();
+  EXPECT_TRUE(d.converged);
+  EXPECT_EQ(d.station_eta.size(), 6u);  // root, 0.2, 0.4, 0.6, 0.8, tip
+  EXPECT_NEAR(d.before.CL, 0.5, 1e-10);
+  EXPECT_NEAR(d.after.CL, 0.5, 1e-9);
+  EXPECT_EQ(d.twist_after_deg[0], d.twist_before_deg[0]);  // the root keeps its twist; alpha is designed
+  EXPECT_EQ(d.designed.flight.alpha_deg.front(), d.after.alpha_deg);
+  EXPECT_LT(d.after.CD_induced, d.before.CD_induced);
+  EXPECT_GE(*d.after.span_efficiency, 0.995);
+  // The case written out solves to the same state.
+  const PointResult p = skein::Run(d.designed, {}).points.front();
+  EXPECT_NEAR(p.CL, d.after.CL, 1e-12);
+  EXPECT_NEAR(p.CD_induced, d.after.CD_induced, 1e-12 * d.after.CD_induced);
+  // Mesh-converged span efficiency: designed and as given (measured values in the commit message).
+  study::ConvergenceOptions co;
+  const auto designed = study::MeshConvergence(d.designed, co).quantities[3];
+  Case untwisted = d.designed;
+  for (Section& s : untwisted.surfaces[0].sections) s.twist_deg = 0.0;
+  untwisted.flight.alpha_deg = {d.before.alpha_deg};
+  const auto given = study::MeshConvergence(untwisted, co).quantities[3];
+  ASSERT_EQ(designed.name, "span_efficiency");
+  EXPECT_TRUE(designed.extrapolation.order_observed);
+  EXPECT_GE(designed.extrapolation.value, 0.995);
+  EXPECT_LE(designed.extrapolation.value, 1.0 + designed.extrapolation.error_estimate);
+  EXPECT_LT(given.extrapolation.value, 0.995);
+}
+
+TEST(TwistDesign, NoSmallPerturbationOfTheDesignedTwistLowersTheDragAtTheSameLift) {
+  const study::TwistDesign& d = DesignedWing();
+  std::mt19937 rng(2026);
+  std::uniform_real_distribution<double> u(-0.25, 0.25);  // deg
+  for (int trial = 0; trial < 6; ++trial) {
+    Case p = d.designed;
+    for (Section& s : p.surfaces[0].sections) s.twist_deg += u(rng);
+    const PointResult r = AtLift(p, 0.5);
+    ASSERT_NEAR(r.CL, 0.5, 1e-9);
+    EXPECT_GT(r.CD_induced, d.after.CD_induced) << "trial " << trial;
+  }
+}
+
+TEST(TwistDesign, HoldingRootBendingKeepsItAtOrBelowTheWingAsGiven) {
+  // A strongly tapered, unswept wing (taper 0.2) carries more of its load inboard than the elliptic loading:
+  // the free design moves load outboard and raises the root bending moment, so holding it binds.
+  const Case c =
+      testing::WingCase(testing::TaperedWing(10.0, 1.5, 0.2, 0.0, testing::Mesh(4, 32, Spacing::sine)), {4.0});
+  study::TwistDesignOptions o;
+  o.target_CL = 0.5;
+  const study::TwistDesign free = study::DesignTwist(c, o);
+  o.keep_root_bending = true;
+  const study::TwistDesign held = study::DesignTwist(c, o);
+  EXPECT_GT(free.after.root_bending, free.before.root_bending);
+  EXPECT_TRUE(held.converged);
+  EXPECT_TRUE(held.bending_constraint_active);
+  EXPECT_NEAR(held.after.root_bending, held.before.root_bending, 1e-9 * held.before.root_bending);
+  EXPECT_LT(held.after.CD_induced, held.before.CD_induced);
+  EXPECT_GT(held.after.CD_induced, free.after.CD_induced);
+  EXPECT_NEAR(held.after.CL, 0.5, 1e-9);
+}
+
+TEST(TwistDesign, RefusesAnUnknownSurfaceAndAZeroTarget) {
+  const Case c = DesignWing();
+  study::TwistDesignOptions o;
+  o.surface = "tail";
+  EXPECT_THROW(study::DesignTwist(c, o), InputError);
+  o.surface = "";
+  o.target_CL = 0.0;
+  EXPECT_THROW(study::DesignTwist(c, o), InputError);
 }
 
 }  // namespace

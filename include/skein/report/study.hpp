@@ -16,6 +16,10 @@ void WriteConvergenceTable(const study::ConvergenceStudy& s, std::ostream& out);
 /// The results document of json.hpp with a "convergence" object added (results-format.md: keys may be added).
 void WriteJsonWithConvergence(const Results& r, const study::ConvergenceStudy& s, std::ostream& out);
 
+/// The twist design: the design point, induced drag, span efficiency and root bending before and after, the
+/// twist of each section, and the cautions.
+void WriteTwistDesign(const study::TwistDesign& d, std::ostream& out);
+
 /// The cautions every design-study report carries (conceptual-design estimates, linear inviscid theory).
 void WriteCautions(std::ostream& out);
 
