@@ -475,4 +475,80 @@ TwistDesign DesignTwist(const Case& c, const TwistDesignOptions& o) {
   return out;
 }
 
+PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run) {
+  PointAtLift out;
+  out.at = c;
+  out.at.flight.alpha_deg = {c.flight.alpha_deg.front()};
+  out.at.flight.beta_deg = {c.flight.beta_deg.front()};
+  for (int it = 0;; ++it) {
+    out.point = Run(out.at, run).points.front();
+    if (std::abs(out.point.CL - target_CL) <= 1e-12 * std::max(1.0, std::abs(target_CL))) break;
+    if (it == 8)
+      throw InputError(c.source_path, {}, fmt::format("CL {:g} was not reached (CL {:.9g} after {} steps)",
+                                                      target_CL, out.point.CL, it));
+    const double cla = out.point.derivatives.Get("CL_alpha").value_or(0.0);
+    if (!(std::abs(cla) > 1e-9))
+      throw InputError(c.source_path, {}, "CL does not change with alpha: the target CL cannot be reached");
+    const double next = out.at.flight.alpha_deg.front() + (target_CL - out.point.CL) / cla / kDegToRad;
+    if (!(std::abs(next) < 89.0))
+      throw InputError(c.source_path, {}, fmt::format("reaching CL {:g} would need alpha {:.1f} deg", target_CL, next));
+    out.at.flight.alpha_deg = {next};
+  }
+  out.lattice = BuildLattice(out.at);
+  return out;
+}
+
+Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o) {
+  if (cases.empty()) throw InputError("compare needs at least one case");
+  Comparison cmp;
+  if (o.target_CL) {
+    cmp.target_CL = *o.target_CL;
+  } else {
+    Case first = cases.front();
+    first.flight.alpha_deg = {first.flight.alpha_deg.front()};
+    first.flight.beta_deg = {first.flight.beta_deg.front()};
+    cmp.target_CL = Run(first, o.run).points.front().CL;
+  }
+  if (!std::isfinite(cmp.target_CL) || std::abs(cmp.target_CL) < 1e-6)
+    throw InputError(cases.front().source_path, {},
+                     fmt::format("the comparison needs a non-zero CL, got {:g}; give --cl", cmp.target_CL));
+  for (const Case& c : cases) {
+    const PointAtLift p = SolveAtLift(c, cmp.target_CL, o.run);
+    CompareEntry e;
+    e.title = c.title;
+    e.source = c.source_path;
+    e.alpha_deg = p.point.alpha_deg;
+    e.CL = p.point.CL;
+    e.CD_induced = p.point.CD_induced;
+    e.span_efficiency = p.point.span_efficiency;
+    e.CL_alpha = p.point.derivatives.Get("CL_alpha").value_or(std::numeric_limits<double>::quiet_NaN());
+    e.root_bending = c.surfaces.front().symmetric ? RootBendingCoefficient(p.lattice, p.at, p.point, 0)
+                                                  : std::numeric_limits<double>::quiet_NaN();
+    const StripLoads& sl = p.point.surfaces.front().strips;
+    const LatticeSurface& ls = p.lattice.surfaces.front();
+    double semi = 0.0;
+    for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
+      semi = std::max({semi, std::abs(p.lattice.strips[m].te_left[1]), std::abs(p.lattice.strips[m].te_right[1])});
+    std::size_t peak = 0;
+    for (std::size_t k = 1; k < sl.cl.size(); ++k)
+      if (sl.cl[k] > sl.cl[peak]) peak = k;
+    e.cl_peak_eta = semi > 0.0 ? std::abs(sl.y[peak]) / semi : std::numeric_limits<double>::quiet_NaN();
+    e.cl_peak_over_CL = sl.cl[peak] / p.point.CL;
+    if (p.point.neutral_point) e.neutral_point_x = (*p.point.neutral_point)[0];
+    cmp.entries.push_back(e);
+  }
+  for (std::size_t i = 0; i < cmp.entries.size(); ++i) cmp.ranked.push_back(i);
+  std::stable_sort(cmp.ranked.begin(), cmp.ranked.end(), [&](std::size_t a, std::size_t b) {
+    return cmp.entries[a].CD_induced < cmp.entries[b].CD_induced;
+  });
+  for (std::size_t k = 0; k < cmp.ranked.size(); ++k) {
+    CompareEntry& e = cmp.entries[cmp.ranked[k]];
+    const CompareEntry* prev = k > 0 ? &cmp.entries[cmp.ranked[k - 1]] : nullptr;
+    const bool tie = prev && std::abs(e.CD_induced - prev->CD_induced) <=
+                                 1e-12 * std::max(std::abs(e.CD_induced), std::abs(prev->CD_induced));
+    e.rank = tie ? prev->rank : static_cast<int>(k) + 1;
+  }
+  return cmp;
+}
+
 }  // namespace skein::study

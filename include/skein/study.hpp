@@ -187,4 +187,45 @@ struct TwistDesign {
 /// Throws InputError for an unknown or non-symmetric surface, or a target the wing cannot reach.
 TwistDesign DesignTwist(const Case& c, const TwistDesignOptions& options);
 
+// ---------------------------------------------------------------------------------------------------------
+// Comparing configurations
+
+/// The point of a case at a given lift coefficient: the angle of attack is moved (secant steps on CL_alpha)
+/// until CL matches to 1e-12; beta and the rest of the flight condition are the case's first point's.
+/// Throws InputError when CL does not respond to alpha or the lift needs |alpha| >= 89 deg.
+struct PointAtLift {
+  Case at;             ///< the case with the one flight point found
+  PointResult point;
+  Lattice lattice;
+};
+PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run);
+
+struct CompareOptions {
+  std::optional<double> target_CL;  ///< default: the first case's CL at its first flight point
+  RunOptions run;
+};
+
+struct CompareEntry {
+  std::string title, source;
+  double alpha_deg = 0.0;           ///< needed for the target CL
+  double CL = 0.0, CD_induced = 0.0;
+  std::optional<double> span_efficiency;
+  double CL_alpha = 0.0;            ///< per rad
+  double root_bending = 0.0;        ///< RootBendingCoefficient of the first surface (NaN if not symmetric)
+  double cl_peak_eta = 0.0;         ///< where the first surface's local cl peaks, |y| / semi-span
+  double cl_peak_over_CL = 0.0;     ///< that peak cl over the configuration CL
+  std::optional<double> neutral_point_x;  ///< m
+  int rank = 0;                     ///< 1 = least induced drag; equal drags share a rank
+};
+
+struct Comparison {
+  double target_CL = 0.0;
+  std::vector<CompareEntry> entries;  ///< in the order given
+  std::vector<std::size_t> ranked;    ///< indices into entries, least induced drag first (stable for ties)
+};
+
+/// Solves every case at the same CL and ranks them by induced drag. Throws InputError (naming the case)
+/// when a case cannot reach the target.
+Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& options);
+
 }  // namespace skein::study

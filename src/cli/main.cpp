@@ -111,6 +111,41 @@ int RunTwist(const std::string& case_path, const TwistArgs& t) {
   return 0;
 }
 
+struct CompareArgs {
+  std::vector<std::string> cases;
+  double cl = 0.0;
+  bool cl_given = false;
+  std::string json, csv_dir;
+};
+
+int RunCompare(const CompareArgs& t) {
+  std::vector<skein::Case> cases;
+  std::vector<fs::path> inputs;
+  for (const std::string& p : t.cases) {
+    cases.push_back(skein::ReadCaseFile(p));
+    inputs.emplace_back(p);
+  }
+  skein::study::CompareOptions o;
+  if (t.cl_given) o.target_CL = t.cl;
+  const skein::study::Comparison cmp = skein::study::CompareCases(cases, o);
+  StagedOutputs out(inputs);
+  std::ostringstream json_text;
+  if (!t.json.empty()) {
+    skein::report::WriteComparisonJson(cmp, json_text);
+    if (t.json != "-") out.Add(t.json, [&](std::ostream& f) { f << json_text.str(); });
+  }
+  if (!t.csv_dir.empty()) {
+    std::error_code ec;
+    fs::create_directories(t.csv_dir, ec);
+    if (ec) throw OutputError(fmt::format("cannot create directory {}: {}", t.csv_dir, ec.message()));
+    out.Add(fs::path(t.csv_dir) / "compare.csv", [&](std::ostream& f) { skein::report::WriteComparisonCsv(cmp, f); });
+  }
+  out.Commit();
+  if (t.json == "-") std::cout << json_text.str();
+  skein::report::WriteComparisonTable(cmp, t.json == "-" ? std::cerr : std::cout);
+  return 0;
+}
+
 int RunSolve(const SolveArgs& a) {
   using Clock = std::chrono::steady_clock;
   const auto t0 = Clock::now();
@@ -200,6 +235,16 @@ int main(int argc, char** argv) {
   twist->add_option("--surface", tw.surface, "surface to twist (default: the first)")->type_name("NAME");
   twist->add_option("--stations", tw.stations, "design sections per half, root to tip (default 6)")
       ->check(CLI::Range(2, 50));
+  CompareArgs cmp;
+  CLI::App* compare = app.add_subcommand(
+      "compare", "Solve several cases at the same CL and rank them by induced drag.\n"
+                 "Example: skein compare cases/survey_drone.toml twisted.toml --cl 0.5 --json cmp.json");
+  compare->add_option("CASES", cmp.cases, "case files (TOML)")->required();
+  compare->add_option("--cl", cmp.cl, "lift coefficient for every case (default: the first case's first point)")
+      ->each([&](const std::string&) { cmp.cl_given = true; });
+  compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
+      ->type_name("FILE");
+  compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -209,6 +254,7 @@ int main(int argc, char** argv) {
   try {
     if (*solve) return RunSolve(a);
     if (*twist) return RunTwist(a.case_path, tw);
+    if (*compare) return RunCompare(cmp);
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;

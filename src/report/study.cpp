@@ -2,6 +2,7 @@
 #include "skein/report/study.hpp"
 
 #include <cmath>
+#include <limits>
 #include <ostream>
 #include <sstream>
 
@@ -117,6 +118,84 @@ void WriteTwistDesign(const study::TwistDesign& d, std::ostream& out) {
   for (const auto& w : d.warnings) out << "  Warning: " << w << '\n';
   out << "  The figures are for this mesh; run `skein solve NEW.toml --refine` for mesh-converged values.\n\n";
   WriteCautions(out);
+}
+
+namespace {
+
+std::string CaseName(const study::CompareEntry& e) {
+  if (!e.source.empty()) return e.source;
+  return e.title.empty() ? std::string("(untitled)") : e.title;
+}
+
+double OrNan(const std::optional<double>& v) { return v ? *v : std::numeric_limits<double>::quiet_NaN(); }
+
+std::string CsvField(const std::string& s) {
+  std::string out = "\"";
+  for (char ch : s) out += ch == '"' ? std::string("\"\"") : std::string(1, ch);
+  return out + "\"";
+}
+
+std::string CsvNum(double v) { return std::isfinite(v) ? fmt::format("{:.17g}", v) : std::string(); }
+
+}  // namespace
+
+void WriteComparisonTable(const study::Comparison& c, std::ostream& out) {
+  out << fmt::format("Skein comparison at CL {:.4f} (every case at this lift; ranked by induced drag)\n\n",
+                     c.target_CL);
+  out << " rank  alpha   CD_induced      e  CL_alpha  root bending  cl peak at   peak cl   neutral pt  case\n";
+  out << "         deg                         /rad   /(q S b)     y/semi-span  / CL       x m\n";
+  for (std::size_t i : c.ranked) {
+    const study::CompareEntry& e = c.entries[i];
+    out << fmt::format("{:>5} {} {} {} {} {} {} {} {}  {}\n", e.rank, Cell(e.alpha_deg, 6, 2),
+                       Cell(e.CD_induced, 12, 6), Cell(OrNan(e.span_efficiency), 6, 3), Cell(e.CL_alpha, 9, 3),
+                       Cell(e.root_bending, 13, 5), Cell(e.cl_peak_eta, 12, 3), Cell(e.cl_peak_over_CL, 9, 3),
+                       Cell(OrNan(e.neutral_point_x), 11, 4), CaseName(e));
+  }
+  out << "  (root bending: the first surface's right half about the x axis through its root; cl peak: the first\n"
+         "   surface's largest local cl, an indication of where stall would begin, not a stall prediction)\n\n";
+  WriteCautions(out);
+}
+
+void WriteComparisonJson(const study::Comparison& c, std::ostream& out) {
+  std::vector<std::string> problems;
+  ordered_json cases = ordered_json::array();
+  for (std::size_t i : c.ranked) {
+    const study::CompareEntry& e = c.entries[i];
+    const std::string at = "cases." + CaseName(e);
+    cases.push_back({{"rank", e.rank},
+                     {"title", e.title},
+                     {"source", e.source},
+                     {"alpha_deg", Num(e.alpha_deg, at + ".alpha_deg", problems)},
+                     {"CL", Num(e.CL, at + ".CL", problems)},
+                     {"CD_induced", Num(e.CD_induced, at + ".CD_induced", problems)},
+                     {"span_efficiency", e.span_efficiency ? Num(*e.span_efficiency, at, problems) : ordered_json()},
+                     {"CL_alpha", Num(e.CL_alpha, at + ".CL_alpha", problems)},
+                     {"root_bending", Num(e.root_bending, at + ".root_bending", problems)},
+                     {"cl_peak_eta", Num(e.cl_peak_eta, at + ".cl_peak_eta", problems)},
+                     {"cl_peak_over_CL", Num(e.cl_peak_over_CL, at + ".cl_peak_over_CL", problems)},
+                     {"neutral_point_x", e.neutral_point_x ? Num(*e.neutral_point_x, at, problems) : ordered_json()}});
+  }
+  ordered_json doc;
+  doc["format"] = "skein-comparison";
+  doc["version"] = 1;
+  doc["CL"] = c.target_CL;
+  doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
+                    "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
+  doc["cases"] = cases;
+  doc["warnings"] = problems;
+  out << doc.dump(2) << '\n';
+}
+
+void WriteComparisonCsv(const study::Comparison& c, std::ostream& out) {
+  out << "rank,case,title,alpha_deg,CL,CD_induced,span_efficiency,CL_alpha,root_bending,cl_peak_eta,"
+         "cl_peak_over_CL,neutral_point_x\n";
+  for (std::size_t i : c.ranked) {
+    const study::CompareEntry& e = c.entries[i];
+    out << e.rank << ',' << CsvField(e.source) << ',' << CsvField(e.title) << ',' << CsvNum(e.alpha_deg) << ','
+        << CsvNum(e.CL) << ',' << CsvNum(e.CD_induced) << ',' << CsvNum(OrNan(e.span_efficiency)) << ','
+        << CsvNum(e.CL_alpha) << ',' << CsvNum(e.root_bending) << ',' << CsvNum(e.cl_peak_eta) << ','
+        << CsvNum(e.cl_peak_over_CL) << ',' << CsvNum(OrNan(e.neutral_point_x)) << '\n';
+  }
 }
 
 }  // namespace skein::report

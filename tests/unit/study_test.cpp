@@ -286,5 +286,49 @@ TEST(TwistDesign, RefusesAnUnknownSurfaceAndAZeroTarget) {
   EXPECT_THROW(study::DesignTwist(c, o), InputError);
 }
 
+// ----- Comparing configurations -----
+
+TEST(Compare, ACaseComparedWithItselfRanksEqual) {
+  const Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 15.0, testing::Mesh(4, 12)), {3.0});
+  const study::Comparison cmp = study::CompareCases({c, c}, {});
+  ASSERT_EQ(cmp.entries.size(), 2u);
+  EXPECT_EQ(cmp.entries[0].rank, 1);
+  EXPECT_EQ(cmp.entries[1].rank, 1);
+  EXPECT_EQ(cmp.entries[0].CD_induced, cmp.entries[1].CD_induced);
+  EXPECT_EQ(cmp.entries[0].root_bending, cmp.entries[1].root_bending);
+  // The default lift is the first case's at its first point, reached at that point's alpha.
+  const PointResult p = skein::Run(c, {}).points.front();
+  EXPECT_EQ(cmp.target_CL, p.CL);
+  EXPECT_NEAR(cmp.entries[0].alpha_deg, 3.0, 1e-9);
+}
+
+TEST(Compare, RanksByInducedDragAtTheSameLift) {
+  // The designed twist against the wing as given: the design must rank first, both at the same CL.
+  const study::TwistDesign& d = DesignedWing();
+  Case given = d.designed;
+  for (std::size_t k = 0; k < given.surfaces[0].sections.size(); ++k)
+    given.surfaces[0].sections[k].twist_deg = d.twist_before_deg[k];
+  study::CompareOptions o;
+  o.target_CL = 0.5;
+  const study::Comparison cmp = study::CompareCases({given, d.designed}, o);
+  ASSERT_EQ(cmp.ranked.size(), 2u);
+  EXPECT_EQ(cmp.ranked[0], 1u);
+  EXPECT_EQ(cmp.entries[1].rank, 1);
+  EXPECT_EQ(cmp.entries[0].rank, 2);
+  for (const auto& e : cmp.entries) EXPECT_NEAR(e.CL, 0.5, 1e-11);
+  EXPECT_NEAR(cmp.entries[1].CD_induced, d.after.CD_induced, 1e-9 * d.after.CD_induced);
+  EXPECT_NEAR(cmp.entries[0].CD_induced, d.before.CD_induced, 1e-9 * d.before.CD_induced);
+}
+
+TEST(Compare, RootBendingOfAnEllipticLoadIsItsCentroidMoment) {
+  // Half the lift at 4 s / (3 pi) from the root for an elliptic loading (common practice: the centroid of a
+  // half ellipse); the elliptic planform of an untwisted flat wing carries a near-elliptic load, so the root
+  // bending coefficient is CL (S/2) (4 s / 3 pi) / (S b) = CL / (3 pi) within the mesh's departure from it.
+  const Case c = testing::WingCase(testing::EllipticWing(10.0, 1.0, 40, 4), {4.0});
+  const Lattice lat = BuildLattice(c);
+  const PointResult p = skein::Run(c, {}).points.front();
+  EXPECT_NEAR(study::RootBendingCoefficient(lat, c, p, 0), p.CL / (3.0 * 3.14159265358979323846), 0.01 * p.CL / 9.42);
+}
+
 }  // namespace
 }  // namespace skein

@@ -20,6 +20,14 @@ void WriteJsonWithConvergence(const Results& r, const study::ConvergenceStudy& s
 /// twist of each section, and the cautions.
 void WriteTwistDesign(const study::TwistDesign& d, std::ostream& out);
 
+/// The comparison: a ranked table (least induced drag first) and the cautions.
+void WriteComparisonTable(const study::Comparison& c, std::ostream& out);
+/// The comparison as JSON: {"format": "skein-comparison", "version": 1, "CL": ..., "cases": [...]} in the
+/// order ranked, each with the names of study::CompareEntry.
+void WriteComparisonJson(const study::Comparison& c, std::ostream& out);
+/// The comparison as CSV (compare.csv): a header row and one row per case in ranked order.
+void WriteComparisonCsv(const study::Comparison& c, std::ostream& out);
+
 /// The cautions every design-study report carries (conceptual-design estimates, linear inviscid theory).
 void WriteCautions(std::ostream& out);
 
