@@ -4,12 +4,14 @@
 #include <chrono>
 #include <cmath>
 #include <map>
+#include <set>
 #include <utility>
 
 #include <fmt/format.h>
 #include <omp.h>
 #include <unistd.h>
 
+#include "skein/geometry_check.hpp"
 #include "skein/profile_drag.hpp"
 #include "skein/structural.hpp"
 #include "vec3.hpp"
@@ -74,6 +76,7 @@ Results Run(const Case& c, const RunOptions& options) {
 
   auto t0 = Clock::now();
   const Lattice lat = BuildLattice(c);
+  CheckGeometry(c, lat);  // coincident, intersecting, folded or degenerate surfaces: InputError before assembly
   res.times.mesh = Since(t0);
   res.mesh.panels = lat.panels();
   for (const LatticeSurface& s : lat.surfaces) res.mesh.surfaces.push_back({s.name, s.panels, s.strips});
@@ -97,8 +100,15 @@ Results Run(const Case& c, const RunOptions& options) {
     groups[k].push_back(p);
   }
   res.points.resize(points.size());
+  std::set<std::pair<int, int>> wake_warned;  // one near-the-wake warning per pair of surfaces
   for (const auto& [key, members] : groups) {
     const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
+    const std::string flight =
+        freestream ? fmt::format("at alpha {:g} deg, beta {:g} deg", points[members.front()].first,
+                                 points[members.front()].second)
+                   : "";
+    for (WakeWarning& w : CheckWakeClearance(c, lat, wake.direction, flight))
+      if (wake_warned.insert({w.surface, w.leg_surface}).second) res.warnings.push_back(std::move(w.message));
     BasisSolution basis = SolveBasis(lat, c.reference.moment_point, wake, so, c.flight.mach);
     res.times.assemble += basis.seconds_assemble;
     res.times.factorise += basis.seconds_factorise;
@@ -109,8 +119,9 @@ Results Run(const Case& c, const RunOptions& options) {
     res.mesh.half_model = basis.layouts.front().kind != SystemLayout::Kind::full;
     ++res.mesh.factorisations;
     if (basis.status == SolveStatus::singular || basis.status == SolveStatus::non_finite)
-      throw NumericalError(basis.message);
-    if (basis.status == SolveStatus::ill_conditioned) res.warnings.push_back(basis.message);
+      throw NumericalError(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
+    if (basis.status == SolveStatus::ill_conditioned)
+      res.warnings.push_back(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
     t0 = Clock::now();
     for (std::size_t p : members) {
       FlightPoint fp;
