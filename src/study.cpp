@@ -551,4 +551,36 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
   return cmp;
 }
 
+std::vector<SpanLoadingSeries> SpanLoadingWithElliptic(const Lattice& lat, const PointResult& p,
+                                                       const Reference& ref) {
+  std::vector<SpanLoadingSeries> out;
+  for (std::size_t s = 0; s < lat.surfaces.size() && s < p.surfaces.size(); ++s) {
+    const LatticeSurface& ls = lat.surfaces[s];
+    const StripLoads& sl = p.surfaces[s].strips;
+    SKEIN_ASSERT(sl.y.size() == ls.strips);
+    double ymin = std::numeric_limits<double>::infinity(), ymax = -ymin;
+    SpanLoadingSeries ser;
+    ser.surface = ls.name;
+    ser.CL = p.surfaces[s].CL;
+    for (std::size_t k = 0; k < ls.strips; ++k) {
+      const Strip& st = lat.strips[ls.first_strip + k];
+      ymin = std::min({ymin, st.te_left[1], st.te_right[1]});
+      ymax = std::max({ymax, st.te_left[1], st.te_right[1]});
+      ser.y.push_back(sl.y[k]);
+      ser.width.push_back(std::abs(st.te_right[1] - st.te_left[1]));
+      ser.loading.push_back(sl.cl_c_over_cref[k]);
+    }
+    ser.span = ymax - ymin;
+    if (!(ser.span > 1e-9 * std::max(1.0, ref.span))) continue;  // no extent in y: a fin on the centre line
+    ser.centre = 0.5 * (ymin + ymax);
+    ser.amplitude = 4.0 * ref.area * ser.CL / (3.14159265358979323846 * ser.span * ref.chord);
+    for (double y : ser.y) {
+      const double e = 2.0 * (y - ser.centre) / ser.span;
+      ser.elliptic.push_back(ser.amplitude * std::sqrt(std::max(0.0, 1.0 - e * e)));
+    }
+    out.push_back(std::move(ser));
+  }
+  return out;
+}
+
 }  // namespace skein::study

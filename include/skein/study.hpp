@@ -228,4 +228,26 @@ struct Comparison {
 /// when a case cannot reach the target.
 Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& options);
 
+// ---------------------------------------------------------------------------------------------------------
+// Span loading with its elliptic reference (for plots)
+
+/// The span loading cl c / c_ref of one surface at one point, and the elliptic loading of the same lift and
+/// span for reference: cl c / c_ref = A sqrt(1 - (2 (y - y_c) / b)^2), A = 4 S_ref CL_s / (pi b c_ref), with
+/// CL_s the surface's share of CL, b its tip-to-tip extent and y_c its centre (the area under it is the
+/// surface's lift, S_ref CL_s / c_ref).
+struct SpanLoadingSeries {
+  std::string surface;
+  std::vector<double> y;         ///< m, strip stations, left to right
+  std::vector<double> width;     ///< m, strip widths in y
+  std::vector<double> loading;   ///< cl c / c_ref at each strip
+  std::vector<double> elliptic;  ///< the elliptic reference at each strip
+  double span = 0.0, centre = 0.0, amplitude = 0.0;  ///< b, y_c, A of the elliptic reference
+  double CL = 0.0;               ///< the surface's CL
+};
+
+/// One series per surface that spans in y (a fin on the plane of symmetry has no span loading in y and is
+/// left out). `lat` must be the lattice the point was solved on.
+std::vector<SpanLoadingSeries> SpanLoadingWithElliptic(const Lattice& lat, const PointResult& p,
+                                                       const Reference& ref);
+
 }  // namespace skein::study

@@ -19,6 +19,7 @@
 
 #include "skein/skein.hpp"
 #include "skein/report/study.hpp"
+#include "skein/report/svg.hpp"
 #include "skein/study.hpp"
 
 namespace fs = std::filesystem;
@@ -85,6 +86,7 @@ struct SolveArgs {
   std::size_t max_panels = 0;
   bool refine = false;
   std::size_t refine_max_panels = 6000;
+  std::string svg;
 };
 
 struct TwistArgs {
@@ -189,6 +191,15 @@ int RunSolve(const SolveArgs& a) {
     out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "structural.csv", [&](std::ostream& f) { skein::report::WriteStructuralCsv(r, f); });
   }
+  if (!a.svg.empty() && !r.points.empty()) {
+    skein::report::SpanLoadingPlot plot;
+    plot.title = r.title;
+    plot.alpha_deg = r.points.front().alpha_deg;
+    plot.beta_deg = r.points.front().beta_deg;
+    plot.CL = r.points.front().CL;
+    plot.series = skein::study::SpanLoadingWithElliptic(skein::BuildLattice(c), r.points.front(), r.reference);
+    out.Add(a.svg, [&](std::ostream& f) { skein::report::WriteSpanLoadingSvg(plot, f); });
+  }
   out.Commit();
   r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
   if (a.json == "-") std::cout << json_text.str();
@@ -217,6 +228,10 @@ int main(int argc, char** argv) {
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
   solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
   solve->add_flag("--quiet", a.quiet, "print no summary");
+  solve->add_option("--svg", a.svg,
+                    "write the span loading of the first point (cl c/c_ref, with the elliptic loading of the same "
+                    "lift) as an SVG plot to FILE")
+      ->type_name("FILE");
   solve->add_flag("--refine", a.refine,
                   "also solve the first flight point on three nested meshes and print Richardson-extrapolated CL, "
                   "CD_induced, Cm and span efficiency with error estimates (--json adds a \"convergence\" object)");
