@@ -403,7 +403,7 @@ TwistDesign DesignTwist(const Case& c, const TwistDesignOptions& o) {
     e = Evaluate(d, si, o.run);
   }
   out.before = e.state;
-  const double bending_ref = e.state.root_bending;
+  const double bending_ref = o.root_bending_limit ? *o.root_bending_limit : e.state.root_bending;
   const double qs = 0.5 * c.reference.area;
 
   std::vector<double> theta = out.twist_before_deg;

@@ -150,6 +150,7 @@ struct TwistDesignOptions {
   std::string surface;              ///< surface whose twist is designed; "" = the first surface
   int stations = 6;                 ///< design sections per half, equally spaced root to tip (inserted as needed)
   bool keep_root_bending = false;   ///< hold the root bending moment at or below the wing-as-given's at target_CL
+  std::optional<double> root_bending_limit;  ///< with keep_root_bending: this coefficient instead of the wing-as-given's
   double step_deg = 0.05;           ///< finite-difference step of the twist sensitivities
   int max_iterations = 15;
   double tolerance_deg = 1e-6;      ///< stop when no twist moves by more than this in an iteration

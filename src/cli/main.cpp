@@ -167,7 +167,7 @@ int RunSolve(const SolveArgs& a) {
   std::optional<skein::study::ConvergenceStudy> convergence;
   if (a.refine) {
     skein::study::ConvergenceOptions co;
-    co.max_panels = a.refine_max_panels;
+    co.max_panels = a.max_panels ? std::min(a.max_panels, a.refine_max_panels) : a.refine_max_panels;
     co.run = ro;
     co.run.max_panels = 0;
     convergence = skein::study::MeshConvergence(c, co);
