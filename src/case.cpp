@@ -43,7 +43,18 @@ std::optional<WakeDirection> WakeDirectionFromString(const std::string& s) {
 // and its slope dz/dx = 2m/p^2 (p - x), 2m/(1-p)^2 (p - x). A zero m (NACA 00xx) is the flat line.
 namespace {
 
+/// Linear interpolation in a mean-line table (x ascending), clamped to its ends.
+double TableValue(const std::vector<double>& x, const std::vector<double>& v, double at) {
+  SKEIN_ASSERT(x.size() >= 2 && x.size() == v.size());
+  if (at <= x.front()) return v.front();
+  if (at >= x.back()) return v.back();
+  const auto i = static_cast<std::size_t>(std::upper_bound(x.begin(), x.end(), at) - x.begin());
+  const double f = (at - x[i - 1]) / (x[i] - x[i - 1]);
+  return v[i - 1] + f * (v[i] - v[i - 1]);
+}
+
 bool IsCambered(const Camber& c) {
+  if (c.kind == Camber::Kind::table) return true;
   if (c.kind == Camber::Kind::flat || !(std::abs(c.max_camber) > 0.0)) return false;
   // The reader refuses a cambered line with its maximum at the leading or trailing edge.
   SKEIN_ASSERT(c.max_camber_position > 0.0 && c.max_camber_position < 1.0);
@@ -54,6 +65,7 @@ bool IsCambered(const Camber& c) {
 
 double Camber::Height(double x_over_c) const {
   if (!IsCambered(*this)) return 0.0;
+  if (kind == Kind::table) return TableValue(table_x, table_height, x_over_c);
   const double x = std::clamp(x_over_c, 0.0, 1.0);
   const double m = max_camber, p = max_camber_position;
   if (x < p) return m / (p * p) * (2.0 * p * x - x * x);
@@ -62,6 +74,7 @@ double Camber::Height(double x_over_c) const {
 
 double Camber::Slope(double x_over_c) const {
   if (!IsCambered(*this)) return 0.0;
+  if (kind == Kind::table) return TableValue(table_x, table_slope, x_over_c);
   const double x = std::clamp(x_over_c, 0.0, 1.0);
   const double m = max_camber, p = max_camber_position;
   if (x < p) return 2.0 * m / (p * p) * (p - x);

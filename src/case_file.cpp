@@ -8,6 +8,7 @@
 // out of range), or at the table's header when a key is missing.
 #include "skein/case_file.hpp"
 
+#include "skein/airfoil.hpp"
 #include "skein/atmosphere.hpp"
 
 #include <algorithm>
@@ -487,9 +488,18 @@ Camber Reader::CamberAt(const toml::node& n, const std::string& ctx) const {
       return c;
     }
   } else if (s.find_first_of("./\\") != std::string::npos) {
-    Fail(n, ctx, fmt::format("camber {}: a mean line from a coordinate file is not supported yet; use \"flat\" or "
-                             "\"NACA dddd\"",
-                             Quote(s)));
+    // A coordinate file, relative to the case file's directory (airfoil.hpp).
+    namespace fs = std::filesystem;
+    fs::path where(s);
+    if (where.is_relative()) where = fs::path(file_).parent_path() / where;
+    std::error_code ec;
+    const fs::path absolute = fs::absolute(where, ec);
+    const std::string resolved = (ec ? where : absolute).lexically_normal().string();
+    try {
+      return MeanLineFromCoordinates(ReadAirfoilCoordinates(resolved, s), resolved);
+    } catch (const InputError& e) {
+      Fail(n, ctx, fmt::format("camber {}: {}", Quote(s), e.what()));
+    }
   }
   Fail(n, ctx,
        fmt::format("expected \"flat\" or \"NACA\" and 4 digits (e.g. \"NACA 2412\") for \"camber\", got {}", Quote(s)));

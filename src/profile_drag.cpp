@@ -33,6 +33,7 @@ double MixedSkinFriction(double reynolds, double transition) {
 double ThicknessFormFactor(double t) { return 1.0 + 2.0 * t + 60.0 * t * t * t * t; }
 
 std::optional<double> ThicknessFromName(const Camber& camber) {
+  if (camber.kind == Camber::Kind::table) return camber.table_thickness;  // measured from the coordinates
   const std::string& s = camber.spelling;  // normalised "NACA 2412"
   if (s.size() == 9 && s.rfind("NACA ", 0) == 0 &&
       std::all_of(s.begin() + 5, s.end(), [](char ch) { return ch >= '0' && ch <= '9'; }))

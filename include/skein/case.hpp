@@ -35,13 +35,18 @@ std::optional<Spacing> SpacingFromString(const std::string& s);
 std::optional<WakeDirection> WakeDirectionFromString(const std::string& s);
 
 /// A mean camber line. `flat` has zero slope; `naca4` is the NACA 4-digit mean line (Abbott & von Doenhoff,
-/// Theory of Wing Sections, sec. 6.4): max camber m (fraction of chord) at p (fraction of chord).
+/// Theory of Wing Sections, sec. 6.4): max camber m (fraction of chord) at p (fraction of chord); `table` is a
+/// mean line extracted from an aerofoil coordinate file (airfoil.hpp), tabulated against x/c.
 struct Camber {
-  enum class Kind { flat, naca4 };
+  enum class Kind { flat, naca4, table };
   Kind kind = Kind::flat;
   double max_camber = 0.0;           ///< m, fraction of chord (first digit / 100)
   double max_camber_position = 0.0;  ///< p, fraction of chord (second digit / 10)
-  std::string spelling = "flat";     ///< as the user wrote it, normalised ("flat", "NACA 2412")
+  std::string spelling = "flat";     ///< as the user wrote it, normalised ("flat", "NACA 2412"), or the file path
+  /// `table` only: x/c ascending from 0 to 1, mean-line height z/c above the chord line and slope d(z/c)/d(x/c)
+  /// there (linear in between), and the section's largest thickness t/c.
+  std::vector<double> table_x, table_height, table_slope;
+  double table_thickness = 0.0;
 
   /// Height of the mean line z/c at x/c in [0, 1] (positive toward the panel normal).
   double Height(double x_over_c) const;
@@ -67,7 +72,7 @@ struct SectionPolar {
 struct SectionViscousData {
   std::optional<SectionPolar> polar;  ///< section drag table; without it, skin friction with a form factor
   std::optional<double> cl_max;       ///< section maximum lift coefficient, for the critical-section estimate
-  std::optional<double> thickness;    ///< t/c; default: from a NACA 4-digit name, else 0 (a thin plate)
+  std::optional<double> thickness;    ///< t/c; default: from a NACA 4-digit name or a coordinate file, else 0
   std::optional<double> transition;   ///< x/c where the boundary layer turns turbulent; default 0 (all turbulent)
 };
 

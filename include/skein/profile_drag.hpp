@@ -40,8 +40,8 @@ double TurbulentSkinFriction(double reynolds);  ///< Prandtl-Schlichting
 double MixedSkinFriction(double reynolds, double transition);
 double ThicknessFormFactor(double thickness_over_chord);  ///< Hoerner
 
-/// The thickness ratio a section's camber name implies: the last two digits of "NACA mptt" / 100, else
-/// std::nullopt.
+/// The thickness ratio a section's camber implies: the last two digits of "NACA mptt" / 100, the largest
+/// thickness of a coordinate file's section, else std::nullopt.
 std::optional<double> ThicknessFromName(const Camber& camber);
 
 /// True when any section of the case carries strip-theory data (polar, cl_max, thickness or transition).
