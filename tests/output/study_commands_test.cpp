@@ -1,0 +1,154 @@
+// The design-study commands as a user meets them: `skein solve --refine / --svg`, `skein twist` and
+// `skein compare`, run as the binary (SKEIN_BINARY) in a fresh temporary directory. Checks the exit codes,
+// the files left behind, and that a bad input gives one line naming the file and no output of any kind.
+#include <sys/wait.h>
+
+#include <algorithm>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+#include <nlohmann/json.hpp>
+
+#include "skein/case_file.hpp"
+#include "skein/run.hpp"
+
+namespace {
+
+namespace fs = std::filesystem;
+
+std::string ReadFile(const fs::path& p) {
+  std::ifstream in(p, std::ios::binary);
+  std::ostringstream s;
+  s << in.rdbuf();
+  return s.str();
+}
+
+struct Outcome {
+  int exit_code = -1;
+  std::string out, err;
+};
+
+class StudyCli : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    std::string tmpl = (fs::temp_directory_path() / "skein-study-XXXXXX").string();
+    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
+    dir_ = tmpl;
+    std::ofstream(dir_ / "wing.toml") << kCase;
+  }
+  void TearDown() override {
+    std::error_code ec;
+    fs::remove_all(dir_, ec);
+  }
+  Outcome Skein(const std::string& args) const {
+    const fs::path out = dir_ / ".stdout", err = dir_ / ".stderr";
+    const std::string cmd = "cd '" + dir_.string() + "' && '" + std::string(SKEIN_BINARY) + "' " + args +
+                            " < /dev/null > '" + out.string() + "' 2> '" + err.string() + "'";
+    const int status = std::system(cmd.c_str());
+    Outcome o;
+    o.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    o.out = ReadFile(out);
+    o.err = ReadFile(err);
+    fs::remove(out);
+    fs::remove(err);
+    return o;
+  }
+  std::vector<std::string> Entries() const {
+    std::vector<std::string> names;
+    for (const auto& e : fs::directory_iterator(dir_)) names.push_back(e.path().filename().string());
+    std::sort(names.begin(), names.end());
+    return names;
+  }
+  fs::path dir_;
+
+  // A small tapered wing of our own invention, coarse enough to refine twice quickly.
+  static constexpr const char* kCase = R"(title = "Study probe wing"
+
+[flight]
+alpha = 3.0
+
+[mesh]
+chordwise = 2
+spanwise = 8
+spanwise_spacing = "sine"
+
+[[surface]]
+name = "wing"
+symmetric = true
+
+  [surface.trapezoid]
+  root_leading_edge = [0.0, 0.0, 0.0]
+  span = 6.0
+  root_chord = 0.8
+  taper = 0.4
+  sweep = 10.0
+)";
+};
+
+TEST_F(StudyCli, RefineAddsAConvergenceObjectAndATable) {
+  const Outcome o = Skein("solve wing.toml --refine --json out.json");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  EXPECT_NE(o.out.find("Mesh convergence"), std::string::npos);
+  EXPECT_NE(o.out.find("extrapolated"), std::string::npos);
+  const auto doc = nlohmann::json::parse(ReadFile(dir_ / "out.json"));
+  ASSERT_TRUE(doc.contains("convergence"));
+  const auto& cv = doc["convergence"];
+  EXPECT_EQ(cv["meshes"].size(), 3u);
+  EXPECT_EQ(cv["meshes"][2]["chordwise"], 8);
+  for (const char* q : {"CL", "CD_induced", "Cm", "span_efficiency"}) {
+    ASSERT_TRUE(cv["quantities"].contains(q)) << q;
+    EXPECT_EQ(cv["quantities"][q]["values"].size(), 3u);
+    EXPECT_TRUE(cv["quantities"][q]["extrapolated"].is_number()) << q;
+  }
+  // The rest of the document is the ordinary results document.
+  EXPECT_EQ(doc["format"], "skein-result");
+  EXPECT_EQ(doc["points"][0]["CL"].get<double>(), cv["quantities"]["CL"]["values"][0].get<double>());
+}
+
+TEST_F(StudyCli, SvgIsWrittenWithTheSpanLoading) {
+  const Outcome o = Skein("solve wing.toml --quiet --svg loading.svg");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  const std::string svg = ReadFile(dir_ / "loading.svg");
+  EXPECT_NE(svg.find("<svg"), std::string::npos);
+  EXPECT_NE(svg.find("id=\"loading-wing\""), std::string::npos);
+  EXPECT_NE(svg.find("id=\"elliptic-wing\""), std::string::npos);
+}
+
+TEST_F(StudyCli, TwistWritesACaseThatSolvesToTheTargetLift) {
+  const Outcome o = Skein("twist wing.toml --cl 0.4 --out twisted.toml");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  EXPECT_NE(o.out.find("CD_induced"), std::string::npos);
+  EXPECT_NE(o.out.find("Cautions"), std::string::npos);
+  const skein::Case c = skein::ReadCaseFile((dir_ / "twisted.toml").string());
+  EXPECT_EQ(c.surfaces[0].sections.size(), 6u);
+  const skein::Results r = skein::Run(c, {});
+  EXPECT_NEAR(r.points.front().CL, 0.4, 1e-8);
+  // And compare ranks it ahead of the wing as given at that lift.
+  const Outcome cmp = Skein("compare wing.toml twisted.toml --cl 0.4 --csv cmp");
+  ASSERT_EQ(cmp.exit_code, 0) << cmp.err;
+  const std::string csv = ReadFile(dir_ / "cmp" / "compare.csv");
+  const std::size_t first_row = csv.find('\n') + 1;
+  EXPECT_EQ(csv.compare(first_row, 16, "1,\"twisted.toml\""), 0) << csv;
+}
+
+TEST_F(StudyCli, BadInputGivesOneLineAndNoOutput) {
+  const Outcome t = Skein("twist wing.toml --cl 0 --out twisted.toml");
+  EXPECT_EQ(t.exit_code, 2);
+  EXPECT_EQ(std::count(t.err.begin(), t.err.end(), '\n'), 1) << t.err;
+  EXPECT_EQ(t.err.rfind("wing.toml: ", 0), 0u) << t.err;
+  const Outcome c = Skein("compare wing.toml missing.toml --json cmp.json");
+  EXPECT_EQ(c.exit_code, 2);
+  EXPECT_EQ(std::count(c.err.begin(), c.err.end(), '\n'), 1) << c.err;
+  EXPECT_NE(c.err.find("missing.toml"), std::string::npos) << c.err;
+  const Outcome r = Skein("solve wing.toml --refine --refine-max-panels 10 --json out.json --svg out.svg");
+  EXPECT_EQ(r.exit_code, 2);  // 2 and 8 halve to 1 and 4 but not to 0.5 and 2: no three meshes fit in 10 panels
+  EXPECT_EQ(std::count(r.err.begin(), r.err.end(), '\n'), 1) << r.err;
+  EXPECT_EQ(Entries(), std::vector<std::string>{"wing.toml"});
+}
+
+}  // namespace
