@@ -161,6 +161,31 @@ TEST(TrefftzForm, QuadraticFormEqualsTheSumOfStripDrags) {
   EXPECT_LT((Q - Q.transpose()).norm(), 1e-14 * Q.norm());
 }
 
+TEST(TrefftzForm, QuadraticFormHoldsForTwoSurfaces) {
+  // A wing and a tail behind it (our own invention): the wake of one crosses the other's in the Trefftz plane.
+  Surface wing = testing::TaperedWing(8.0, 1.2, 0.45, 5.0, testing::Mesh(2, 10));
+  Surface tail = testing::TaperedWing(3.0, 0.6, 0.6, 10.0, testing::Mesh(2, 6));
+  tail.name = "tail";
+  for (Section& sec : tail.sections) sec.leading_edge = {sec.leading_edge[0] + 4.0, sec.leading_edge[1], 0.3};
+  std::vector<Surface> both;
+  both.push_back(wing);
+  both.push_back(tail);
+  const Case c = testing::MakeCase(both, {4.0});
+  const Lattice lat = BuildLattice(c);
+  const WakeGeometry wake = WakeFor(c, 4.0, 0.0);
+  const Eigen::MatrixXd Q = study::TrefftzDragMatrix(lat, wake);
+  std::mt19937 rng(11);
+  std::uniform_real_distribution<double> u(-1.0, 1.0);
+  for (int trial = 0; trial < 5; ++trial) {
+    std::vector<double> g(lat.strips.size());
+    Eigen::VectorXd gv(static_cast<Eigen::Index>(g.size()));
+    for (std::size_t m = 0; m < g.size(); ++m) gv(static_cast<Eigen::Index>(m)) = g[m] = u(rng);
+    double d = 0.0;
+    for (double dm : TrefftzDrag(lat, g, wake)) d += dm;
+    EXPECT_NEAR(gv.dot(Q * gv), d, 1e-11 * std::abs(d) + 1e-15);
+  }
+}
+
 TEST(TrefftzForm, FormAgreesWithTheSolvedDragAndLift) {
   // The solve's CD_induced is the same form evaluated at its strip circulations; its far-field lift agrees
   // with the near-field CL to a fraction of a percent on a planar wing with an x-axis wake.
