@@ -95,6 +95,7 @@ struct TwistArgs {
   std::string out;
   std::string surface;
   int stations = 6;
+  std::string json;
 };
 
 int RunTwist(const std::string& case_path, const TwistArgs& t) {
@@ -107,9 +108,15 @@ int RunTwist(const std::string& case_path, const TwistArgs& t) {
   const skein::study::TwistDesign d = skein::study::DesignTwist(c, o);
   StagedOutputs out({fs::path(case_path)});
   if (!t.out.empty()) out.Add(t.out, [&](std::ostream& f) { skein::WriteCaseToml(d.designed, f); });
+  std::ostringstream json_text;
+  if (!t.json.empty()) {
+    skein::report::WriteTwistDesignJson(d, json_text);
+    if (t.json != "-") out.Add(t.json, [&](std::ostream& f) { f << json_text.str(); });
+  }
   out.Commit();
-  skein::report::WriteTwistDesign(d, std::cout);
-  if (!t.out.empty()) std::cout << "Wrote " << t.out << '\n';
+  if (t.json == "-") std::cout << json_text.str();
+  skein::report::WriteTwistDesign(d, t.json == "-" ? std::cerr : std::cout);
+  if (!t.out.empty()) (t.json == "-" ? std::cerr : std::cout) << "Wrote " << t.out << '\n';
   return 0;
 }
 
@@ -250,6 +257,8 @@ int main(int argc, char** argv) {
   twist->add_option("--surface", tw.surface, "surface to twist (default: the first)")->type_name("NAME");
   twist->add_option("--stations", tw.stations, "design sections per half, root to tip (default 6)")
       ->check(CLI::Range(2, 50));
+  twist->add_option("--json", tw.json, "write the design (before, after, twists) to FILE ('-' for standard output)")
+      ->type_name("FILE");
   CompareArgs cmp;
   CLI::App* compare = app.add_subcommand(
       "compare", "Solve several cases at the same CL and rank them by induced drag.\n"

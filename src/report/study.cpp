@@ -198,4 +198,36 @@ void WriteComparisonCsv(const study::Comparison& c, std::ostream& out) {
   }
 }
 
+void WriteTwistDesignJson(const study::TwistDesign& d, std::ostream& out) {
+  std::vector<std::string> problems;
+  auto state = [&](const study::DesignState& st, const std::string& at) {
+    return ordered_json{{"alpha_deg", Num(st.alpha_deg, at + ".alpha_deg", problems)},
+                        {"CL", Num(st.CL, at + ".CL", problems)},
+                        {"CD_induced", Num(st.CD_induced, at + ".CD_induced", problems)},
+                        {"span_efficiency", st.span_efficiency ? Num(*st.span_efficiency, at, problems) : ordered_json()},
+                        {"root_bending", Num(st.root_bending, at + ".root_bending", problems)}};
+  };
+  ordered_json sections = ordered_json::array();
+  for (std::size_t k = 0; k < d.station_eta.size(); ++k)
+    sections.push_back({{"eta", d.station_eta[k]},
+                        {"twist_before_deg", d.twist_before_deg[k]},
+                        {"twist_after_deg", Num(d.twist_after_deg[k], "sections.twist_after_deg", problems)}});
+  ordered_json doc;
+  doc["format"] = "skein-twist-design";
+  doc["version"] = 1;
+  doc["title"] = d.designed.title;
+  doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
+                    "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
+  doc["before"] = state(d.before, "before");
+  doc["after"] = state(d.after, "after");
+  doc["bending_constraint_active"] = d.bending_constraint_active;
+  doc["iterations"] = d.iterations;
+  doc["converged"] = d.converged;
+  doc["sections"] = sections;
+  std::vector<std::string> warnings = d.warnings;
+  warnings.insert(warnings.end(), problems.begin(), problems.end());
+  doc["warnings"] = warnings;
+  out << doc.dump(2) << '\n';
+}
+
 }  // namespace skein::report

@@ -120,8 +120,12 @@ TEST_F(StudyCli, SvgIsWrittenWithTheSpanLoading) {
 }
 
 TEST_F(StudyCli, TwistWritesACaseThatSolvesToTheTargetLift) {
-  const Outcome o = Skein("twist wing.toml --cl 0.4 --out twisted.toml");
+  const Outcome o = Skein("twist wing.toml --cl 0.4 --out twisted.toml --json design.json");
   ASSERT_EQ(o.exit_code, 0) << o.err;
+  const auto design = nlohmann::json::parse(ReadFile(dir_ / "design.json"));
+  EXPECT_EQ(design["format"], "skein-twist-design");
+  EXPECT_EQ(design["sections"].size(), 6u);
+  EXPECT_LT(design["after"]["CD_induced"].get<double>(), design["before"]["CD_induced"].get<double>());
   EXPECT_NE(o.out.find("CD_induced"), std::string::npos);
   EXPECT_NE(o.out.find("Cautions"), std::string::npos);
   const skein::Case c = skein::ReadCaseFile((dir_ / "twisted.toml").string());
@@ -137,7 +141,7 @@ TEST_F(StudyCli, TwistWritesACaseThatSolvesToTheTargetLift) {
 }
 
 TEST_F(StudyCli, BadInputGivesOneLineAndNoOutput) {
-  const Outcome t = Skein("twist wing.toml --cl 0 --out twisted.toml");
+  const Outcome t = Skein("twist wing.toml --cl 0 --out twisted.toml --json design.json");
   EXPECT_EQ(t.exit_code, 2);
   EXPECT_EQ(std::count(t.err.begin(), t.err.end(), '\n'), 1) << t.err;
   EXPECT_EQ(t.err.rfind("wing.toml: ", 0), 0u) << t.err;

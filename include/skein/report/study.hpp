@@ -20,6 +20,10 @@ void WriteJsonWithConvergence(const Results& r, const study::ConvergenceStudy& s
 /// twist of each section, and the cautions.
 void WriteTwistDesign(const study::TwistDesign& d, std::ostream& out);
 
+/// The twist design as JSON: {"format": "skein-twist-design", "version": 1, "before": {...}, "after": {...},
+/// "sections": [{"eta", "twist_before_deg", "twist_after_deg"}], ...}.
+void WriteTwistDesignJson(const study::TwistDesign& d, std::ostream& out);
+
 /// The comparison: a ranked table (least induced drag first) and the cautions.
 void WriteComparisonTable(const study::Comparison& c, std::ostream& out);
 /// The comparison as JSON: {"format": "skein-comparison", "version": 1, "CL": ..., "cases": [...]} in the
