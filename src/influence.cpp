@@ -23,8 +23,10 @@
 // reflections of its given panel's, the trailing legs have no sideways component), the reflection
 // S = diag(1, -1, 1) gives the mirrored half for free: a mirrored horseshoe runs the other way across the span,
 // so V_m(j)(S P) = S V_j(P) and V_j(S P) = S V_m(j)(P), and one lying in the plane y = 0 has
-// V_j(S P) = -S V_j(P). The horseshoes are evaluated at the given-half targets only (half the kernel work) and
-// the circulations are multiplied twice, once as they are and once with the two halves exchanged.
+// V_j(S P) = -S V_j(P). The horseshoes are evaluated at the given-half targets only (half the kernel work),
+// each given horseshoe together with its mirror, and the rows hold the sum and the difference of the two: the
+// sums times the mean of the pair's circulations and the differences times half their difference give the
+// velocity at P as their sum and at S P as their difference (half the multiplications too).
 #include "skein/influence.hpp"
 
 #include <algorithm>
@@ -226,36 +228,65 @@ struct ShoeTable {
   }
 };
 
-/// Velocities at P of every horseshoe of `t` (plus its ground image in `g`): ru[s], rv[s], rw[s].
+/// Table fields as plain pointers for the vectoriser.
+#define SKEIN_TABLE_POINTERS                                                                                 \
+  using F = ShoeTable::Field;                                                                                \
+  const double *tax = t.f[F::tax].data(), *tay = t.f[F::tay].data(), *taz = t.f[F::taz].data();              \
+  const double *ax = t.f[F::ax].data(), *ay = t.f[F::ay].data(), *az = t.f[F::az].data();                    \
+  const double *bx = t.f[F::bx].data(), *by = t.f[F::by].data(), *bz = t.f[F::bz].data();                    \
+  const double *tbx = t.f[F::tbx].data(), *tby = t.f[F::tby].data(), *tbz = t.f[F::tbz].data();              \
+  const double *e0 = t.f[F::e0].data(), *e1 = t.f[F::e1].data(), *e2 = t.f[F::e2].data();                    \
+  const double* eps4 = t.f[F::eps4].data();                                                                  \
+  const double dx = t.d[0], dy = t.d[1], dz = t.d[2];                                                        \
+  const double *gtax = g.f[F::tax].data(), *gtay = g.f[F::tay].data(), *gtaz = g.f[F::taz].data();           \
+  const double *gax = g.f[F::ax].data(), *gay = g.f[F::ay].data(), *gaz = g.f[F::az].data();                 \
+  const double *gbx = g.f[F::bx].data(), *gby = g.f[F::by].data(), *gbz = g.f[F::bz].data();                 \
+  const double *gtbx = g.f[F::tbx].data(), *gtby = g.f[F::tby].data(), *gtbz = g.f[F::tbz].data();           \
+  const double *ge0 = g.f[F::e0].data(), *ge1 = g.f[F::e1].data(), *ge2 = g.f[F::e2].data();                 \
+  const double gdx = g.d[0], gdy = g.d[1], gdz = g.d[2]
+
+/// Velocity at P of table entry s (and its ground image) into (u, v, w), which start at zero.
+#define SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w)                                                                \
+  ShoeVelocity(px, py, pz, tax[s], tay[s], taz[s], ax[s], ay[s], az[s], bx[s], by[s], bz[s], tbx[s], tby[s],  \
+               tbz[s], e0[s], e1[s], e2[s], eps4[s], dx, dy, dz, u, v, w);                                    \
+  if constexpr (kGround)                                                                                      \
+  ShoeVelocity(px, py, pz, gtax[s], gtay[s], gtaz[s], gax[s], gay[s], gaz[s], gbx[s], gby[s], gbz[s], gtbx[s], \
+               gtby[s], gtbz[s], ge0[s], ge1[s], ge2[s], eps4[s], gdx, gdy, gdz, u, v, w)
+
+/// Velocities at P of the horseshoes first .. last - 1 of `t` (plus their ground images in `g`): ru[s], rv[s],
+/// rw[s].
 template <bool kGround>
-SKEIN_ALWAYS_INLINE void KernelRowImpl(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz,
-                                       double* ru, double* rv, double* rw) {
-  using F = ShoeTable::Field;
-  const std::size_t n = t.size();
-  const double *tax = t.f[F::tax].data(), *tay = t.f[F::tay].data(), *taz = t.f[F::taz].data();
-  const double *ax = t.f[F::ax].data(), *ay = t.f[F::ay].data(), *az = t.f[F::az].data();
-  const double *bx = t.f[F::bx].data(), *by = t.f[F::by].data(), *bz = t.f[F::bz].data();
-  const double *tbx = t.f[F::tbx].data(), *tby = t.f[F::tby].data(), *tbz = t.f[F::tbz].data();
-  const double *e0 = t.f[F::e0].data(), *e1 = t.f[F::e1].data(), *e2 = t.f[F::e2].data();
-  const double* eps4 = t.f[F::eps4].data();
-  const double dx = t.d[0], dy = t.d[1], dz = t.d[2];
-  const double *gtax = g.f[F::tax].data(), *gtay = g.f[F::tay].data(), *gtaz = g.f[F::taz].data();
-  const double *gax = g.f[F::ax].data(), *gay = g.f[F::ay].data(), *gaz = g.f[F::az].data();
-  const double *gbx = g.f[F::bx].data(), *gby = g.f[F::by].data(), *gbz = g.f[F::bz].data();
-  const double *gtbx = g.f[F::tbx].data(), *gtby = g.f[F::tby].data(), *gtbz = g.f[F::tbz].data();
-  const double *ge0 = g.f[F::e0].data(), *ge1 = g.f[F::e1].data(), *ge2 = g.f[F::e2].data();
-  const double gdx = g.d[0], gdy = g.d[1], gdz = g.d[2];
+SKEIN_ALWAYS_INLINE void KernelRowImpl(const ShoeTable& t, const ShoeTable& g, std::size_t first,
+                                       std::size_t last, double px, double py, double pz, double* ru, double* rv,
+                                       double* rw) {
+  SKEIN_TABLE_POINTERS;
 #pragma omp simd
-  for (std::size_t s = 0; s < n; ++s) {
+  for (std::size_t s = first; s < last; ++s) {
     double u = 0.0, v = 0.0, w = 0.0;
-    ShoeVelocity(px, py, pz, tax[s], tay[s], taz[s], ax[s], ay[s], az[s], bx[s], by[s], bz[s], tbx[s], tby[s],
-                 tbz[s], e0[s], e1[s], e2[s], eps4[s], dx, dy, dz, u, v, w);
-    if constexpr (kGround)
-      ShoeVelocity(px, py, pz, gtax[s], gtay[s], gtaz[s], gax[s], gay[s], gaz[s], gbx[s], gby[s], gbz[s],
-                   gtbx[s], gtby[s], gtbz[s], ge0[s], ge1[s], ge2[s], eps4[s], gdx, gdy, gdz, u, v, w);
+    SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w);
     ru[s] = u;
     rv[s] = v;
     rw[s] = w;
+  }
+}
+
+/// Mirrored table [given | mirrors | ...]: for s < given, the sum of the velocities at P of entry s and of its
+/// mirror given + s into r[s], their difference into r[given + s].
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void PairedRowImpl(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px,
+                                       double py, double pz, double* ru, double* rv, double* rw) {
+  SKEIN_TABLE_POINTERS;
+#pragma omp simd
+  for (std::size_t s = 0; s < given; ++s) {
+    double u = 0.0, v = 0.0, w = 0.0, um = 0.0, vm = 0.0, wm = 0.0;
+    SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w);
+    SKEIN_TABLE_ENTRY_VELOCITY(given + s, um, vm, wm);
+    ru[s] = u + um;
+    rv[s] = v + vm;
+    rw[s] = w + wm;
+    ru[given + s] = u - um;
+    rv[given + s] = v - vm;
+    rw[given + s] = w - wm;
   }
 }
 
@@ -271,9 +302,14 @@ void PairColumnBase(const TargetArrays& t, const Shoe& s, const Shoe& sg, const 
   PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
 }
 template <bool kGround>
-void KernelRowBase(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz, double* ru,
-                   double* rv, double* rw) {
-  KernelRowImpl<kGround>(t, g, px, py, pz, ru, rv, rw);
+void KernelRowBase(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last, double px,
+                   double py, double pz, double* ru, double* rv, double* rw) {
+  KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);
+}
+template <bool kGround>
+void PairedRowBase(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px, double py, double pz,
+                   double* ru, double* rv, double* rw) {
+  PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);
 }
 #if defined(SKEIN_AVX2_CLONE)
 template <bool kGround>
@@ -286,9 +322,14 @@ SKEIN_TARGET_AVX2 void PairColumnAvx2(const TargetArrays& t, const Shoe& s, cons
   PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
 }
 template <bool kGround>
-SKEIN_TARGET_AVX2 void KernelRowAvx2(const ShoeTable& t, const ShoeTable& g, double px, double py, double pz,
-                                     double* ru, double* rv, double* rw) {
-  KernelRowImpl<kGround>(t, g, px, py, pz, ru, rv, rw);
+SKEIN_TARGET_AVX2 void KernelRowAvx2(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,
+                                     double px, double py, double pz, double* ru, double* rv, double* rw) {
+  KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);
+}
+template <bool kGround>
+SKEIN_TARGET_AVX2 void PairedRowAvx2(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px,
+                                     double py, double pz, double* ru, double* rv, double* rw) {
+  PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);
 }
 bool HaveAvx2() {
   static const bool have = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
@@ -303,15 +344,20 @@ struct Kernels {
   void (*direct)(const TargetArrays&, const Shoe&, const Shoe&, double*);
   void (*pair)(const TargetArrays&, const Shoe&, const Shoe&, const Shoe&, const Shoe&, std::size_t, double*,
                double*);
-  void (*row)(const ShoeTable&, const ShoeTable&, double, double, double, double*, double*, double*);
+  void (*row)(const ShoeTable&, const ShoeTable&, std::size_t, std::size_t, double, double, double, double*,
+              double*, double*);
+  void (*paired)(const ShoeTable&, const ShoeTable&, std::size_t, double, double, double, double*, double*,
+                 double*);
 };
 
 template <bool kGround>
 Kernels KernelsFor() {
 #if defined(SKEIN_AVX2_CLONE)
-  if (HaveAvx2()) return {&DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>};
+  if (HaveAvx2())
+    return {&DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
+            &PairedRowAvx2<kGround>};
 #endif
-  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>};
+  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>};
 }
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
 
@@ -513,15 +559,22 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
     if (ground) table_ground.Add(GroundImage(s, wake));
   }
   if (!ground) table_ground = table;  // read by nothing; keeps the pointers valid
-  // Circulations in table order; mirrored, a second block with the halves exchanged (see the file comment).
+  // Circulations in table order. Mirrored (see the file comment): with the rows holding, per given horseshoe,
+  // the sum and the difference of its and its mirror's velocities, and then the centre-line ones, the
+  // velocity at a given point is X + Y and at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2,
+  // Y = differences . (g_given - g_mirror) / 2 + centre-line . g_centre.
   const auto nsi = static_cast<Eigen::Index>(ns);
-  Eigen::MatrixXd g(nsi, plan.mirrored ? 2 * k : k);
-  for (Eigen::Index r = 0; r < nsi; ++r) g.row(r).head(k) = gamma.row(static_cast<Eigen::Index>(plan.order[static_cast<std::size_t>(r)]));
+  const auto given = static_cast<Eigen::Index>(plan.given);
+  Eigen::MatrixXd g_ordered(nsi, k);
+  for (Eigen::Index r = 0; r < nsi; ++r)
+    g_ordered.row(r) = gamma.row(static_cast<Eigen::Index>(plan.order[static_cast<std::size_t>(r)]));
+  Eigen::MatrixXd g_sum, g_rest;
   if (plan.mirrored) {
-    const auto given = static_cast<Eigen::Index>(plan.given);
-    g.block(0, k, given, k) = g.block(given, 0, given, k);
-    g.block(given, k, given, k) = g.block(0, 0, given, k);
-    g.block(2 * given, k, nsi - 2 * given, k) = -g.block(2 * given, 0, nsi - 2 * given, k);
+    g_sum = 0.5 * (g_ordered.topRows(given) + g_ordered.middleRows(given, given));
+    g_rest.resize(nsi - given, k);
+    g_rest.topRows(given) = 0.5 * (g_ordered.topRows(given) - g_ordered.middleRows(given, given));
+    g_rest.bottomRows(nsi - 2 * given) = g_ordered.bottomRows(nsi - 2 * given);
+    g_ordered.resize(0, 0);
   }
 
   const Kernels kernels = KernelsFor(ground);
@@ -532,7 +585,7 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
 #pragma omp parallel
   {
     RowMatrix rows(static_cast<Eigen::Index>(3 * kBlock), nsi);
-    Eigen::MatrixXd prod(static_cast<Eigen::Index>(3 * kBlock), g.cols());
+    Eigen::MatrixXd x(static_cast<Eigen::Index>(3 * kBlock), k), y(static_cast<Eigen::Index>(3 * kBlock), k);
 #pragma omp for schedule(dynamic, 1)
     for (std::ptrdiff_t blk = 0; blk < nblocks; ++blk) {
       const std::size_t first = static_cast<std::size_t>(blk) * kBlock;
@@ -541,23 +594,39 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
       for (std::size_t q = 0; q < count; ++q) {
         const std::size_t p = plan.targets[first + q].first;
         const auto qi = static_cast<Eigen::Index>(q);
-        kernels.row(table, table_ground, points.x[p], points.y[p], points.z[p], rows.row(qi).data(),
-                    rows.row(c + qi).data(), rows.row(2 * c + qi).data());
+        double *ru = rows.row(qi).data(), *rv = rows.row(c + qi).data(), *rw = rows.row(2 * c + qi).data();
+        if (plan.mirrored) {
+          kernels.paired(table, table_ground, plan.given, points.x[p], points.y[p], points.z[p], ru, rv, rw);
+          kernels.row(table, table_ground, 2 * plan.given, ns, points.x[p], points.y[p], points.z[p], ru, rv, rw);
+        } else {
+          kernels.row(table, table_ground, 0, ns, points.x[p], points.y[p], points.z[p], ru, rv, rw);
+        }
       }
       // Sequential inside the thread, sizes fixed by the block: the same sums whatever the thread count.
-      prod.topRows(3 * c).noalias() = rows.topRows(3 * c) * g;
+      if (plan.mirrored) {
+        x.topRows(3 * c).noalias() = rows.topRows(3 * c).leftCols(given) * g_sum;
+        y.topRows(3 * c).noalias() = rows.topRows(3 * c).rightCols(nsi - given) * g_rest;
+      } else {
+        y.topRows(3 * c).noalias() = rows.topRows(3 * c) * g_ordered;
+      }
       for (std::size_t q = 0; q < count; ++q) {
         const auto [p, m] = plan.targets[first + q];
         const auto qi = static_cast<Eigen::Index>(q);
         const auto pi = static_cast<Eigen::Index>(p);
-        out.u.row(pi) = prod.row(qi).head(k);
-        out.v.row(pi) = prod.row(c + qi).head(k);
-        out.w.row(pi) = prod.row(2 * c + qi).head(k);
+        if (!plan.mirrored) {
+          out.u.row(pi) = y.row(qi);
+          out.v.row(pi) = y.row(c + qi);
+          out.w.row(pi) = y.row(2 * c + qi);
+          continue;
+        }
+        out.u.row(pi) = x.row(qi) + y.row(qi);
+        out.v.row(pi) = x.row(c + qi) + y.row(c + qi);
+        out.w.row(pi) = x.row(2 * c + qi) + y.row(2 * c + qi);
         if (m < 0) continue;
         const auto mi = static_cast<Eigen::Index>(m);
-        out.u.row(mi) = prod.row(qi).tail(k);
-        out.v.row(mi) = -prod.row(c + qi).tail(k);
-        out.w.row(mi) = prod.row(2 * c + qi).tail(k);
+        out.u.row(mi) = x.row(qi) - y.row(qi);
+        out.v.row(mi) = y.row(c + qi) - x.row(c + qi);
+        out.w.row(mi) = x.row(2 * c + qi) - y.row(2 * c + qi);
       }
     }
   }
