@@ -84,7 +84,10 @@ Case Refined(Case c, double factor) {
 /// For Lambda = 0 this is Helmbold's formula (H. B. Helmbold, "Der unverwundene Ellipsenfluegel als tragende
 /// Wirbelflaeche", Jahrbuch 1942 der deutschen Luftfahrtforschung, pp. I 111-I 113; from memory); the sweep
 /// term is the extension of E. C. Polhamus, "A simple method of estimating the subsonic lift and damping in
-/// roll of sweptback wings", NACA TN 1862, 1949 (from memory).
+/// roll of sweptback wings", NACA TN 1862, 1949 (from memory). The same formula, with a section-slope and a
+/// Mach factor, is the USAF Stability and Control DATCOM's subsonic lift-curve slope (D. E. Hoak et al., 1960,
+/// rev. 1978, sec. 4.1.3.2); it is written out here rather than taken from skein::datcom so that the check
+/// does not lean on the code it checks.
 /// A = b^2 / S from the wing's projected area and span; tan^2 Lambda is the span-weighted mean over the
 /// straight segments between sections, from the section mid-chord points (twist and dihedral neglected: both
 /// change the slope by far less than the tolerance in these examples).
