@@ -56,6 +56,9 @@ std::vector<PlacedSection> PlaceSections(const Surface& s) {
     const Section& sec = s.sections[k];
     Vec3 axis = k == 0 ? seg_dir[0] : k == n - 1 ? seg_dir[n - 2] : Normalized(seg_dir[k - 1] + seg_dir[k]);
     if (!(Norm(axis) > 0.0)) axis = seg_dir[k == 0 ? 0 : k - 1];
+    // The root of a symmetric surface on the plane y = 0 is shared with its mirror image: the mean of the two
+    // halves' spanwise axes is y itself, so twist turns it about y and its trailing edge stays on the plane.
+    if (k == 0 && s.symmetric && !(std::abs(sec.leading_edge[1]) > 1e-12)) axis = {0.0, axis[1] < 0.0 ? -1.0 : 1.0, 0.0};
     // Twist: nose-up about the local spanwise axis (the right-hand rule about +y raises the nose).
     const Vec3 chord_dir = Rotate({1.0, 0.0, 0.0}, axis, sec.twist_deg * kDegToRad);
     Vec3 le = sec.leading_edge;
@@ -101,6 +104,8 @@ std::vector<Station> SpanStations(const Surface& s, const std::vector<PlacedSect
     for (double c : cuts)
       if (c > u_break[k] + 1e-9 && c < u_break[k + 1] - 1e-9) pts.push_back(c);
     std::sort(pts.begin(), pts.end());
+    // Two controls that meet (one ends where the next begins) cut the span at the same place: one mesh line.
+    pts.erase(std::unique(pts.begin(), pts.end(), [](double l, double r) { return r - l <= 1e-9; }), pts.end());
     for (std::size_t i = 0; i + 1 < pts.size(); ++i) intervals.push_back({pts[i], pts[i + 1], k});
   }
   // Panel counts: explicit per-section counts are kept; the rest share the surface count by their range in
@@ -235,6 +240,18 @@ Lattice BuildLattice(const Case& c) {
     std::vector<int> control_index;
     const int first_control = static_cast<int>(lat.controls.size());
     for (const Control& ct : s.controls) lat.controls.push_back({ct.name, static_cast<int>(si)});
+    // A panel belongs to one control at most: two controls sharing part of the span would leave the first one
+    // without the panels of the overlap (and without their derivative), a silent wrong answer.
+    for (std::size_t i = 0; i < s.controls.size(); ++i)
+      for (std::size_t j = 0; j < i; ++j) {
+        const Control &a = s.controls[j], &b = s.controls[i];
+        if (b.span_fraction[0] < a.span_fraction[1] && a.span_fraction[0] < b.span_fraction[1])
+          throw InputError(c.source_path, b.where,
+                           fmt::format("surface \"{}\" control \"{}\": span_fraction [{}, {}] overlaps control \"{}\" "
+                                       "[{}, {}]; controls of one surface must not share any part of the span",
+                                       s.name, b.name, b.span_fraction[0], b.span_fraction[1], a.name,
+                                       a.span_fraction[0], a.span_fraction[1]));
+      }
     for (std::size_t k = 0; k + 1 < stations.size(); ++k) {
       // The first strip of a segment starts where the previous segment ends (stored as that segment's t = 1):
       // restate it as this segment's t = 0, so that both edges, and the mid-strip station, lie in one segment.

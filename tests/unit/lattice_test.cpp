@@ -196,6 +196,22 @@ TEST(Lattice, TwistAndIncidenceRotateTheChordNoseUp) {
   }
 }
 
+TEST(Lattice, ATwistedRootWithDihedralKeepsItsTrailingEdgeOnTheSymmetryPlane) {
+  // The root of a symmetric surface is shared with its mirror image, so twisting it must not open a gap or an
+  // overlap at y = 0 (conventions.md: a symmetric surface is mirrored about y = 0).
+  Surface w = testing::RectangularWing(6.0, 1.0, Mesh(4, 6));
+  w.sections[1].leading_edge[2] = 3.0 * std::tan(10.0 * kDeg);  // 10 deg dihedral
+  w.sections[0].twist_deg = 6.0;
+  const Lattice lat = BuildLattice(WingCase(w));
+  for (std::size_t i = 0; i < lat.panels(); ++i) {
+    if (lat.mirror_of[i] >= 0 || lat.strip[i] != static_cast<int>(lat.strips.size() / 2)) continue;
+    // The right half's first strip: its inboard (a-side) corners lie on y = 0.
+    EXPECT_NEAR(lat.corner_te_a.y[i], 0.0, kGeom);
+    EXPECT_NEAR(lat.corner_le_a.y[i], 0.0, kGeom);
+    EXPECT_NEAR(lat.te_a.y[i], 0.0, kGeom);
+  }
+}
+
 TEST(Lattice, NacaCamberTiltsNormalsByTheMeanLineSlope) {
   const Camber camber = testing::Naca4(4, 3);
   const double chord = 2.0;
