@@ -22,6 +22,10 @@ std::string FormatInputError(const std::string& file, const SourceRegion& where,
 
 }  // namespace
 
+std::string FormatSourceMessage(const std::string& file, const SourceRegion& where, const std::string& message) {
+  return FormatInputError(file, where, message);
+}
+
 InputError::InputError(std::string file, SourceRegion where, std::string message)
     : std::runtime_error(FormatInputError(file, where, message)),
       file_(std::move(file)),

@@ -192,24 +192,25 @@ std::vector<double> SpacingFractions(Spacing s, int n) {
   return f;
 }
 
+std::size_t CountPanels(const Surface& s) {
+  int fixed = 0;
+  std::size_t free_segments = 0;
+  for (std::size_t k = 0; k + 1 < s.sections.size(); ++k) {
+    if (s.sections[k].spanwise) fixed += *s.sections[k].spanwise;
+    else ++free_segments;
+  }
+  std::size_t span = static_cast<std::size_t>(fixed) +
+                     (free_segments ? std::max<std::size_t>(
+                                          static_cast<std::size_t>(std::max(s.mesh.spanwise - fixed, 0)), free_segments)
+                                    : 0);
+  span += 2 * s.controls.size();  // control ends add at most a strip each
+  const std::size_t chord = static_cast<std::size_t>(std::max(s.mesh.chordwise, s.controls.empty() ? 1 : 2));
+  return span * chord * (s.symmetric ? 2 : 1);
+}
+
 std::size_t CountPanels(const Case& c) {
   std::size_t total = 0;
-  for (const Surface& s : c.surfaces) {
-    std::size_t span = 0;
-    int fixed = 0;
-    std::size_t free_segments = 0;
-    for (std::size_t k = 0; k + 1 < s.sections.size(); ++k) {
-      if (s.sections[k].spanwise) fixed += *s.sections[k].spanwise;
-      else ++free_segments;
-    }
-    span = static_cast<std::size_t>(fixed) +
-           (free_segments ? std::max<std::size_t>(static_cast<std::size_t>(std::max(s.mesh.spanwise - fixed, 0)),
-                                                   free_segments)
-                          : 0);
-    span += 2 * s.controls.size();  // control ends add at most a strip each
-    const std::size_t chord = static_cast<std::size_t>(std::max(s.mesh.chordwise, s.controls.empty() ? 1 : 2));
-    total += span * chord * (s.symmetric ? 2 : 1);
-  }
+  for (const Surface& s : c.surfaces) total += CountPanels(s);
   return total;
 }
 

@@ -88,6 +88,18 @@ void AddDownwash(const Lattice& lat, const BasisSolution& basis, const std::arra
   }
 }
 
+/// Trefftz-plane velocity at p of one infinite line vortex through q along d, of sense s (+1 along d): one leg of
+/// AddTrefftzPairVelocity (biot_savart.hpp), with the same regularisation.
+void AddTrefftzLegVelocity(const Vec3& p, const Vec3& q, const Vec3& d, double eps4, double s, double& u, double& v,
+                           double& w) {
+  const Vec3 c = Cross(d, p - q);
+  const double h2 = Dot(c, c);
+  const double f = s * 2.0 * kInv4Pi * h2 / (h2 * h2 + eps4 + kTiny);
+  u += f * c[0];
+  v += f * c[1];
+  w += f * c[2];
+}
+
 }  // namespace
 
 std::vector<std::vector<int>> SurfacesAhead(const Lattice& lat) {
@@ -129,24 +141,52 @@ std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& s
   }
   std::vector<double> drag(ns, 0.0);
   const double h2 = 2.0 * wake.ground.height_z;
+  const Vec3& dir = wake.direction;
+  auto across = [&](const Vec3& r) { return r - Dot(r, dir) * dir; };  // projection on the Trefftz plane
   for (std::size_t m = 0; m < ns; ++m) {
-    const Vec3 p = 0.5 * (lat.strips[m].te_left + lat.strips[m].te_right);
-    double u = 0.0, v = 0.0, w = 0.0;
+    const Vec3 a = lat.strips[m].te_left, b = lat.strips[m].te_right;
+    const Vec3 p = 0.5 * (a + b);
+    const double coincident = kCoreFraction * Norm(across(b - a));
+    double u = 0.0, v = 0.0, w = 0.0, flux = 0.0;
     for (std::size_t j = 0; j < ns; ++j) {
       double uj = 0.0, vj = 0.0, wj = 0.0;
-      AddTrefftzPairVelocity(p[0], p[1], p[2], &ta[3 * j], &tb[3 * j], d, eps4[j], uj, vj, wj);
-      if (wake.ground.enabled) {
-        // Image pair in the ground plane: reflected points in reversed order, same circulation.
-        const double ia[3] = {tb[3 * j], tb[3 * j + 1], h2 - tb[3 * j + 2]};
-        const double ib[3] = {ta[3 * j], ta[3 * j + 1], h2 - ta[3 * j + 2]};
-        AddTrefftzPairVelocity(p[0], p[1], p[2], ia, ib, d, eps4[j], uj, vj, wj);
+      if (lat.strips[j].surface == lat.strips[m].surface) {
+        // The surface's own wake: the midpoint rule, the velocity at the segment's midpoint times its length.
+        AddTrefftzPairVelocity(p[0], p[1], p[2], &ta[3 * j], &tb[3 * j], d, eps4[j], uj, vj, wj);
+        if (wake.ground.enabled) {
+          // Image pair in the ground plane: reflected points in reversed order, same circulation.
+          const double ia[3] = {tb[3 * j], tb[3 * j + 1], h2 - tb[3 * j + 2]};
+          const double ib[3] = {ta[3 * j], ta[3 * j + 1], h2 - ta[3 * j + 2]};
+          AddTrefftzPairVelocity(p[0], p[1], p[2], ia, ib, d, eps4[j], uj, vj, wj);
+        }
+      } else {
+        // Another surface's vortices. Its velocity can vary steeply along this segment (a tail's wake close to
+        // the wing's), where the midpoint rule makes the drag jump with the mesh; integrate exactly instead:
+        // a line vortex of sense s through Q gives, along the segment A -> B projected on the Trefftz plane,
+        //     int v . (d x t) ds = (s / 2 pi) ln(|B - Q| / |A - Q|)
+        // (a principal value when Q lies on the segment). A vortex at one of the segment's ends (a junction,
+        // such as a winglet on a wing tip) belongs to this sheet's own edge and keeps the midpoint rule.
+        const Vec3 la{ta[3 * j], ta[3 * j + 1], ta[3 * j + 2]}, lb{tb[3 * j], tb[3 * j + 1], tb[3 * j + 2]};
+        struct Leg {
+          Vec3 q;
+          double sense;
+        };
+        const Leg legs[4] = {{la, -1.0}, {lb, 1.0}, {{lb[0], lb[1], h2 - lb[2]}, -1.0}, {{la[0], la[1], h2 - la[2]}, 1.0}};
+        for (int k = 0; k < (wake.ground.enabled ? 4 : 2); ++k) {
+          const double ra = Norm(across(a - legs[k].q)), rb = Norm(across(b - legs[k].q));
+          if (std::min(ra, rb) > coincident) {
+            flux += strip_gamma[j] * legs[k].sense * 2.0 * kInv4Pi * std::log(rb / ra);
+          } else {
+            AddTrefftzLegVelocity(p, legs[k].q, dir, eps4[j], legs[k].sense, uj, vj, wj);
+          }
+        }
       }
       u += strip_gamma[j] * uj;
       v += strip_gamma[j] * vj;
       w += strip_gamma[j] * wj;
     }
-    const Vec3 n = Cross(wake.direction, lat.strips[m].te_right - lat.strips[m].te_left);
-    drag[m] = -0.5 * strip_gamma[m] * (u * n[0] + v * n[1] + w * n[2]);
+    const Vec3 n = Cross(wake.direction, b - a);
+    drag[m] = -0.5 * strip_gamma[m] * (u * n[0] + v * n[1] + w * n[2] + flux);
   }
   return drag;
 }

@@ -13,6 +13,15 @@
 // a bound vortex feels nothing from it). The relative change is (eps/h)^4: with the core radius the lattice
 // uses (kCoreFraction of a panel's smaller side), a control point half a panel away from a leg sees 1e-4 of
 // that leg's velocity removed, far below the discretisation error. Lengths of zero are guarded by `kTiny`.
+//
+// Surfaces in another surface's wake. The core belongs to the source horseshoe, so a tail's control point near
+// one of the wing's trailing legs feels that leg's full 1/h field down to h of about eps: results stay finite
+// everywhere, but they converge with the mesh only when the tail's control points keep a distance from the
+// legs that the mesh resolves, i.e. the tail sits off the wake sheet by more than about a strip width, or its
+// strips are cut where the wing's legs run (tests/unit/whole_aircraft_test.cpp: a tail a tenth of a chord above
+// the wake changes by less than 2 % over the last mesh doubling). A tail in the plane of the wake with its
+// control points at arbitrary distances between the legs does not converge (the discrete legs do not stand for
+// the continuous sheet there); the geometry check warns about it, and refuses a control point inside a core.
 #pragma once
 
 #include <algorithm>

@@ -15,6 +15,10 @@ struct SourceRegion {
   int column = 0;
 };
 
+/// `file:line:column: message`, leaving out the parts that are unknown (empty file, line or column 0): the
+/// one format of every located message (InputError, and TrimError in trim.hpp).
+std::string FormatSourceMessage(const std::string& file, const SourceRegion& where, const std::string& message);
+
 /// Bad input: one sentence a user can act on. what() is the full line
 /// `file:line:column: message` (parts that are unknown are left out).
 class InputError : public std::runtime_error {

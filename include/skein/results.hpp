@@ -124,6 +124,25 @@ struct MeshSummary {
   std::vector<Surface> surfaces;
 };
 
+/// How a trim ended (trim.hpp) and what it found. Present only in the results of Trim(), which throws rather
+/// than return an unconverged trim, so `converged` is true whenever this is written.
+struct TrimResult {
+  bool converged = false;
+  int iterations = 0;             ///< Newton steps taken (0: the starting point was already trimmed); each
+                                  ///< step is one exact solution, plus one for an incidence's Jacobian
+  double alpha_deg = 0.0;         ///< the trimmed angle of attack
+  std::string adjust;             ///< "<surface>.incidence" or "<control>.deflection", as in the case
+  std::string adjusted_surface;   ///< the surface that setting belongs to
+  double value_deg = 0.0;         ///< the trimmed incidence or deflection
+  double CL = 0.0, Cm = 0.0;      ///< of the trimmed point's exact solution
+  double CL_target = 0.0;         ///< from lift_coefficient, or weight / (q S_ref)
+  double CD_induced = 0.0;        ///< Trefftz-plane induced drag at trim
+  std::optional<double> static_margin;  ///< at trim, fraction of c_ref (positive = stable)
+  /// Each surface's share of the lift, CL_surface / CL (absent when CL is zero).
+  std::vector<std::pair<std::string, double>> lift_share;
+  std::vector<double> residual_history;  ///< max(|CL - target|, |Cm|) at each iterate, first to last
+};
+
 struct Results {
   std::string title;
   std::string source_path;
@@ -134,6 +153,7 @@ struct Results {
   std::vector<PointResult> points;
   std::optional<BestLiftToDrag> best_lift_to_drag;  ///< over the sweep, when profile drag was estimated
   StageTimes times;
+  std::optional<TrimResult> trim;  ///< set by Trim() only
 };
 
 }  // namespace skein

@@ -19,3 +19,4 @@
 #include "skein/run.hpp"
 #include "skein/solver.hpp"
 #include "skein/structural.hpp"
+#include "skein/trim.hpp"

@@ -2,10 +2,9 @@
 // all physics lives in the library.
 //
 // Exit codes: 0 success; 2 bad input (the case file, or an argument); 3 a numerical failure (singular system,
-// non-finite result); 4 an output file could not be written; 70 an internal error.
+// non-finite result, a trim that cannot be reached); 4 an output file could not be written; 70 an internal error.
 #include <chrono>
 #include <cstdio>
-#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <functional>
@@ -60,8 +59,6 @@ class StagedOutputs {
     if (!f) throw OutputError(fmt::format("cannot write {} (disk full?)", target.string()));
   }
   void Commit() {
-    // Test hook (tests/output/safe_output_test.cpp): die as a kill would, every file written, none renamed.
-    if (const char* v = std::getenv("SKEIN_TEST_ABORT_BEFORE_RENAME"); v && std::string(v) == "1") std::abort();
     for (const auto& f : staged_) {
       std::error_code ec;
       fs::rename(f.temp, f.target, ec);
@@ -90,6 +87,7 @@ struct SolveArgs {
   bool refine = false;
   std::size_t refine_max_panels = 6000;
   std::string svg;
+  bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
 };
 
 struct TwistArgs {
@@ -171,7 +169,7 @@ int RunSolve(const SolveArgs& a) {
   ro.threads = a.threads;
   ro.max_panels = a.max_panels;
   ro.allow_half_model = !a.full_model;
-  skein::Results r = skein::Run(c, ro);
+  skein::Results r = a.trim ? skein::Trim(c, ro) : skein::Run(c, ro);
   r.times.read = t_read;
   r.times.total += t_read;
   std::optional<skein::study::ConvergenceStudy> convergence;
@@ -248,6 +246,18 @@ int main(int argc, char** argv) {
   solve->add_option("--refine-max-panels", a.refine_max_panels,
                     "largest mesh --refine may build (default 6000); beyond it the case's mesh is halved instead")
       ->type_name("N");
+  CLI::App* trim = app.add_subcommand(
+      "trim", "Trim in pitch as the case's [trim] table asks: find alpha and the setting it names (a surface's\n"
+              "incidence or a control's deflection) for Cm = 0 and the target CL, then report that point like solve.\n"
+              "Example: skein trim cases/trainer_two_seat.toml --json trim.json");
+  trim->add_option("CASE", a.case_path, "case file (TOML) with a [trim] table")->required();
+  trim->add_option("--json", a.json, "write the results document, with its \"trim\" object, to FILE ('-' for "
+                                     "standard output)")
+      ->type_name("FILE");
+  trim->add_option("--csv", a.csv_dir, "write points.csv, strips.csv and structural.csv of the trimmed point into DIR")
+      ->type_name("DIR");
+  trim->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
+  trim->add_flag("--quiet", a.quiet, "print no summary");
   TwistArgs tw;
   CLI::App* twist = app.add_subcommand(
       "twist", "Design the spanwise twist of a wing for least induced drag at a target CL.\n"
@@ -279,12 +289,16 @@ int main(int argc, char** argv) {
     return rc == 0 ? 0 : kExitInput;
   }
   try {
-    if (*solve) return RunSolve(a);
+    a.trim = trim->parsed();
+    if (*solve || *trim) return RunSolve(a);
     if (*twist) return RunTwist(a.case_path, tw);
     if (*compare) return RunCompare(cmp);
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;
+  } catch (const skein::TrimError& e) {  // already names the file and the [trim] table
+    std::cerr << e.what() << '\n';
+    return kExitNumerical;
   } catch (const skein::NumericalError& e) {
     std::cerr << a.case_path << ": " << e.what() << '\n';
     return kExitNumerical;

@@ -161,6 +161,25 @@ void WriteJson(const Results& r, std::ostream& out) {
     jp["warnings"] = p.warnings;
     points.push_back(jp);
   }
+  ordered_json trim;
+  if (r.trim) {
+    const TrimResult& t = *r.trim;
+    ordered_json share = ordered_json::object();
+    for (const auto& [name, v] : t.lift_share) share[name] = w.Num(v, "trim.lift_share." + name);
+    trim = {{"converged", t.converged},
+            {"iterations", t.iterations},
+            {"alpha_deg", w.Num(t.alpha_deg, "trim.alpha_deg")},
+            {"adjust", t.adjust},
+            {"value_deg", w.Num(t.value_deg, "trim.value_deg")},
+            {"CL", w.Num(t.CL, "trim.CL")},
+            {"Cm", w.Num(t.Cm, "trim.Cm")},
+            {"CL_target", w.Num(t.CL_target, "trim.CL_target")},
+            {"CD_induced", w.Num(t.CD_induced, "trim.CD_induced")},
+            {"static_margin", t.static_margin ? w.Num(*t.static_margin, "trim.static_margin") : ordered_json()},
+            {"adjusted_surface", t.adjusted_surface},
+            {"lift_share", share},
+            {"residual_history", w.Array(t.residual_history, "trim.residual_history")}};
+  }
   std::vector<std::string> warnings = r.warnings;
   warnings.insert(warnings.end(), w.problems.begin(), w.problems.end());
   doc["warnings"] = warnings;
@@ -170,6 +189,7 @@ void WriteJson(const Results& r, std::ostream& out) {
                                 {"L_over_D", w.Num(r.best_lift_to_drag->L_over_D, "best_lift_to_drag.L_over_D")},
                                 {"CL", w.Num(r.best_lift_to_drag->CL, "best_lift_to_drag.CL")},
                                 {"alpha_deg", w.Num(r.best_lift_to_drag->alpha_deg, "best_lift_to_drag.alpha_deg")}};
+  if (r.trim) doc["trim"] = trim;
   doc["timings"] = {{"read", r.times.read},         {"mesh", r.times.mesh},   {"assemble", r.times.assemble},
                     {"factorise", r.times.factorise}, {"solve", r.times.solve}, {"loads", r.times.loads},
                     {"output", r.times.output},     {"total", r.times.total}, {"threads", r.times.threads_used}};

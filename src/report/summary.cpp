@@ -21,6 +21,96 @@ std::string Opt(const std::optional<double>& v, int width, int digits) {
 
 double Get(const PointResult& p, const char* name) { return p.derivatives.Get(name).value_or(NAN); }
 
+/// The sign of a derivative in words: `negative` when it is below zero, `positive` above, "zero" otherwise.
+std::string Sign(double v, const char* negative, const char* positive) {
+  if (!std::isfinite(v)) return "not computed";
+  if (std::abs(v) < 1e-9) return "zero";
+  return v < 0.0 ? negative : positive;
+}
+
+/// Stability derivatives of one point, each with what its sign means (conventions.md: positive Cl is right
+/// wing down, Cm nose up, Cn nose right; positive beta is wind from the right).
+void WriteStability(const PointResult& p, std::ostream& out) {
+  out << fmt::format("\nStability at alpha {:.2f} deg, beta {:.2f} deg (stability axes; per rad, rates per p b/2V, "
+                     "q c/2V, r b/2V)\n",
+                     p.alpha_deg, p.beta_deg);
+  const double cma = Get(p, "Cm_alpha");
+  out << fmt::format("  Pitch  CL_alpha {}   Cm_alpha {}  {}\n", Fixed(Get(p, "CL_alpha"), 8, 4), Fixed(cma, 8, 4),
+                     Sign(cma, "nose down as alpha rises: statically stable",
+                          "nose UP as alpha rises: statically UNSTABLE"));
+  if (p.neutral_point && p.static_margin)
+    out << fmt::format("         neutral point x = {:.4g} m   static margin {:.1f}% c_ref  ({})\n", (*p.neutral_point)[0],
+                       100.0 * *p.static_margin,
+                       *p.static_margin > 0.0 ? "moment point ahead of the neutral point: stable"
+                                              : "moment point behind the neutral point: UNSTABLE in pitch");
+  const double cmq = Get(p, "Cm_q");
+  out << fmt::format("         Cm_q     {}  {}   CL_q {}\n", Fixed(cmq, 8, 3),
+                     Sign(cmq, "pitch damping", "pitch rate NOT damped"), Fixed(Get(p, "CL_q"), 8, 3));
+  const double cnb = Get(p, "Cn_beta"), cnr = Get(p, "Cn_r");
+  out << fmt::format("  Yaw    Cn_beta  {}  {}\n", Fixed(cnb, 8, 4),
+                     Sign(cnb, "nose turns away from the relative wind: NO weathercock stability",
+                          "nose turns into the relative wind: weathercock stable"));
+  out << fmt::format("         Cn_r     {}  {}   Cn_p {}\n", Fixed(cnr, 8, 4),
+                     Sign(cnr, "yaw damping", "yaw rate NOT damped"), Fixed(Get(p, "Cn_p"), 8, 4));
+  const double clb = Get(p, "Cl_beta"), clp = Get(p, "Cl_p");
+  out << fmt::format("  Roll   Cl_beta  {}  {}\n", Fixed(clb, 8, 4),
+                     Sign(clb, "rolls away from a sideslip: stable dihedral effect",
+                          "rolls into a sideslip: NO dihedral stability"));
+  out << fmt::format("         Cl_p     {}  {}   Cl_r {}\n", Fixed(clp, 8, 4),
+                     Sign(clp, "roll damping", "roll rate NOT damped"), Fixed(Get(p, "Cl_r"), 8, 4));
+  out << fmt::format("  Side   CY_beta  {}\n", Fixed(Get(p, "CY_beta"), 8, 4));
+  if (p.control_derivatives.empty()) return;
+  out << "  Controls, per rad of positive deflection (trailing edge toward -n: down on a wing, right on a fin):\n";
+  for (const auto& [name, nv] : p.control_derivatives) {
+    const double cl = nv.Get("CL").value_or(NAN), cm = nv.Get("Cm").value_or(NAN);
+    const double roll = nv.Get("Cl").value_or(NAN), cn = nv.Get("Cn").value_or(NAN);
+    // The largest of the three moment coefficients names what the control is for.
+    std::string role;
+    if (std::abs(cm) >= std::abs(roll) && std::abs(cm) >= std::abs(cn))
+      role = "pitch power: " + Sign(cm, "nose down", "nose up");
+    else if (std::abs(roll) >= std::abs(cn))
+      role = "roll power: " + Sign(roll, "right wing up", "right wing down");
+    else
+      role = "yaw power: " + Sign(cn, "nose left", "nose right");
+    out << fmt::format("    {:<12} CL {}  Cm {}  Cl {}  Cn {}  ({})\n", name, Fixed(cl, 8, 4), Fixed(cm, 8, 4),
+                       Fixed(roll, 8, 4), Fixed(cn, 8, 4), role);
+  }
+}
+
+/// Downwash each surface sees from the surfaces ahead of it.
+void WriteDownwash(const PointResult& p, std::ostream& out) {
+  bool header = false;
+  for (const SurfaceLoads& s : p.surfaces) {
+    if (s.downwash_from.empty()) continue;
+    if (!header) {
+      out << "  Downwash from the surfaces ahead (area-weighted over the control points):\n";
+      header = true;
+    }
+    std::string from;
+    for (const std::string& f : s.downwash_from) from += (from.empty() ? "" : ", ") + f;
+    out << fmt::format("    {:<12} epsilon {} deg   d epsilon/d alpha {}   (from {})\n", s.name,
+                       Fixed(s.downwash_deg, 7, 3), Fixed(s.downwash_gradient, 7, 4), from);
+  }
+}
+
+/// How the trim ended and what it found.
+void WriteTrim(const TrimResult& t, std::ostream& out) {
+  out << fmt::format("\nTrim ({}): {} in {} Newton step{}\n", t.adjust, t.converged ? "converged" : "NOT converged",
+                     t.iterations, t.iterations == 1 ? "" : "s");
+  out << fmt::format("  alpha {:.4f} deg   {} {:.4f} deg   CL {:.6f} (target {:.6f})   Cm {:.2e}\n", t.alpha_deg,
+                     t.adjust, t.value_deg, t.CL, t.CL_target, t.Cm);
+  out << fmt::format("  CD_induced {:.6f}", t.CD_induced);
+  if (t.static_margin)
+    out << fmt::format("   static margin {:.1f}% c_ref ({})", 100.0 * *t.static_margin,
+                       *t.static_margin > 0.0 ? "stable" : "UNSTABLE in pitch");
+  out << '\n';
+  if (!t.lift_share.empty()) {
+    out << "  share of the lift:";
+    for (const auto& [name, v] : t.lift_share) out << fmt::format("  {} {:.1f}%", name, 100.0 * v);
+    out << '\n';
+  }
+}
+
 }  // namespace
 
 void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& options) {
@@ -38,6 +128,7 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
                      r.mesh.panels, surf, r.mesh.half_model ? "half" : "full", r.mesh.unknowns,
                      r.mesh.factorisations, r.mesh.factorisations == 1 ? "" : "s", r.rcond);
   for (const auto& w : r.warnings) out << "Warning: " << w << '\n';
+  if (r.trim) WriteTrim(*r.trim, out);
 
   out << "\n alpha   beta       CL   CD_induced  CD_i near       CY       Cl       Cm       Cn    e\n";
   out << "   deg    deg\n";
@@ -49,24 +140,8 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
 
   if (!r.points.empty()) {
     const PointResult& p = r.points.front();
-    out << fmt::format("\nStability at alpha {:.2f} deg, beta {:.2f} deg (per rad; rates per p b/2V, q c/2V, r b/2V)\n",
-                       p.alpha_deg, p.beta_deg);
-    out << fmt::format("  CL_alpha {}   Cm_alpha {}", Fixed(Get(p, "CL_alpha"), 7, 3), Fixed(Get(p, "Cm_alpha"), 7, 3));
-    if (p.neutral_point && p.static_margin)
-      out << fmt::format("   neutral point x = {:.4g} m   static margin {:.1f}% c_ref ({})",
-                         (*p.neutral_point)[0], 100.0 * *p.static_margin,
-                         *p.static_margin > 0.0 ? "stable" : "UNSTABLE in pitch");
-    out << '\n';
-    const double cnb = Get(p, "Cn_beta"), clb = Get(p, "Cl_beta");
-    out << fmt::format("  CY_beta  {}   Cl_beta  {} ({})   Cn_beta  {} ({})\n", Fixed(Get(p, "CY_beta"), 7, 3),
-                       Fixed(clb, 7, 4), clb < 0.0 ? "stable dihedral effect" : "no dihedral stability",
-                       Fixed(cnb, 7, 4), cnb > 0.0 ? "weathercock stable" : "no weathercock stability");
-    out << fmt::format("  Cl_p     {}   Cm_q     {}   Cn_r     {}   CL_q {}\n", Fixed(Get(p, "Cl_p"), 7, 3),
-                       Fixed(Get(p, "Cm_q"), 7, 3), Fixed(Get(p, "Cn_r"), 7, 4), Fixed(Get(p, "CL_q"), 7, 3));
-    for (const auto& [name, nv] : p.control_derivatives)
-      out << fmt::format("  control {:<10} per rad: CL {}  Cm {}  Cl {}  Cn {}\n", name,
-                         Fixed(nv.Get("CL").value_or(NAN), 7, 4), Fixed(nv.Get("Cm").value_or(NAN), 7, 4),
-                         Fixed(nv.Get("Cl").value_or(NAN), 7, 4), Fixed(nv.Get("Cn").value_or(NAN), 7, 4));
+    WriteStability(p, out);
+    WriteDownwash(p, out);
 
     if (options.strips) {
       out << fmt::format("\nSpan loading at alpha {:.2f} deg (a sample of the strips; all of them in --json/--csv)\n",
