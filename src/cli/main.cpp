@@ -5,6 +5,7 @@
 // non-finite result, a trim that cannot be reached); 4 an output file could not be written; 70 an internal error.
 #include <chrono>
 #include <cstdio>
+#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <functional>
@@ -59,6 +60,8 @@ class StagedOutputs {
     if (!f) throw OutputError(fmt::format("cannot write {} (disk full?)", target.string()));
   }
   void Commit() {
+    // Test hook (tests/output/safe_output_test.cpp): die as a kill would, every file written, none renamed.
+    if (const char* v = std::getenv("SKEIN_TEST_ABORT_BEFORE_RENAME"); v && std::string(v) == "1") std::abort();
     for (const auto& f : staged_) {
       std::error_code ec;
       fs::rename(f.temp, f.target, ec);
