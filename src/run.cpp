@@ -65,11 +65,21 @@ Results Run(const Case& c, const RunOptions& options) {
   for (const Surface& s : c.surfaces) controls += s.controls.size();
   const std::size_t need = EstimateMemoryBytes(panels, controls, false);
   const std::size_t limit = options.memory_limit_bytes ? options.memory_limit_bytes : PhysicalMemoryBytes();
+  // A size error points at the surface with the most panels: the one to coarsen first.
+  SourceRegion biggest;
+  std::size_t most = 0;
+  for (const Surface& s : c.surfaces) {
+    const std::size_t n = CountPanels(s);
+    if (n > most) {
+      most = n;
+      biggest = s.where;
+    }
+  }
   if (options.max_panels && panels > options.max_panels)
-    throw InputError(c.source_path, {},
+    throw InputError(c.source_path, biggest,
                      fmt::format("the mesh has {} panels, more than --max-panels {}", panels, options.max_panels));
   if (limit && need > limit)
-    throw InputError(c.source_path, {},
+    throw InputError(c.source_path, biggest,
                      fmt::format("the mesh has {} panels and would need {:.1f} GB of memory, more than the "
                                  "{:.1f} GB available; reduce [mesh] chordwise or spanwise",
                                  panels, static_cast<double>(need) / 1e9, static_cast<double>(limit) / 1e9));

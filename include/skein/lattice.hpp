@@ -97,6 +97,8 @@ Lattice BuildLattice(const Case& c);
 
 /// Panel count the case will produce, without building anything (for memory estimates).
 std::size_t CountPanels(const Case& c);
+/// Panel count of one surface (an upper bound when controls add mesh lines).
+std::size_t CountPanels(const Surface& s);
 
 /// Spacing fractions in [0, 1]: n + 1 values from 0 to 1 (library function so tests can check it).
 ///  uniform: t;  cosine: (1 - cos(pi t))/2;  sine: sin(pi t / 2).
