@@ -1,8 +1,10 @@
 // Skein report: terminal summary. See report/summary.hpp.
 #include "skein/report/summary.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <ostream>
+#include <vector>
 
 #include <fmt/format.h>
 
@@ -64,14 +66,20 @@ void WriteStability(const PointResult& p, std::ostream& out) {
   for (const auto& [name, nv] : p.control_derivatives) {
     const double cl = nv.Get("CL").value_or(NAN), cm = nv.Get("Cm").value_or(NAN);
     const double roll = nv.Get("Cl").value_or(NAN), cn = nv.Get("Cn").value_or(NAN);
-    // The largest of the three moment coefficients names what the control is for.
+    // What the control does: each moment at least half as large as the largest, largest first.
+    struct Axis {
+      double v;
+      std::string words;
+    };
+    std::vector<Axis> axes = {{cm, "pitch: " + Sign(cm, "nose down", "nose up")},
+                              {roll, "roll: " + Sign(roll, "right wing up", "right wing down")},
+                              {cn, "yaw: " + Sign(cn, "nose left", "nose right")}};
+    std::stable_sort(axes.begin(), axes.end(), [](const Axis& a, const Axis& b) { return std::abs(a.v) > std::abs(b.v); });
     std::string role;
-    if (std::abs(cm) >= std::abs(roll) && std::abs(cm) >= std::abs(cn))
-      role = "pitch power: " + Sign(cm, "nose down", "nose up");
-    else if (std::abs(roll) >= std::abs(cn))
-      role = "roll power: " + Sign(roll, "right wing up", "right wing down");
-    else
-      role = "yaw power: " + Sign(cn, "nose left", "nose right");
+    for (const Axis& a : axes)
+      if (std::isfinite(a.v) && std::abs(a.v) > 1e-9 && std::abs(a.v) >= 0.5 * std::abs(axes.front().v))
+        role += (role.empty() ? "" : ", ") + a.words;
+    if (role.empty()) role = "no moment";
     out << fmt::format("    {:<12} CL {}  Cm {}  Cl {}  Cn {}  ({})\n", name, Fixed(cl, 8, 4), Fixed(cm, 8, 4),
                        Fixed(roll, 8, 4), Fixed(cn, 8, 4), role);
   }
