@@ -4,12 +4,19 @@
 // with the full local velocity at the segment's midpoint. Far field: the induced drag in the Trefftz plane,
 //     D = -(rho / 2) sum_m Gamma_m  w(P_m) . (d x (TB_m - TA_m)),
 // with Gamma_m a strip's circulation, P_m the midpoint of its wake segment and w the two-dimensional velocity
-// of all the wake's vortex pairs there (the discrete form of D = (rho/2) int Gamma(s) w_n ds).
+// of the surface's own vortex pairs there (the discrete form of D = (rho/2) int Gamma(s) w_n ds); the
+// vortices of other surfaces enter through the exact integral of their normal velocity along the segment, so
+// that a tail's wake close to the wing's does not make the drag jump with the mesh (loads.cpp).
 // All of it is computed for V = 1 and rho = 1; coefficients divide by q = 1/2 and S_ref.
 //
 // Every quantity is a bilinear function of the flow parameters c (solver.hpp), so the derivatives are exact
 // derivatives of the discrete forces with respect to alpha, beta, the rates and the controls, the axes turning
 // with alpha and beta as conventions.md defines them (the wake is held in place).
+//
+// Neutral point: x_np = x_ref - c_ref Cm_alpha / CZ_alpha, CZ_alpha the alpha derivative of the force along
+// geometry z over q S. It is the point on the line through the moment point parallel to x about which Cm does
+// not change with alpha, so it is exactly independent of the moment point's x and y; conventions.md's
+// CL_alpha in the denominator agrees to first order in alpha. Static margin = (x_np - x_ref) / c_ref.
 #pragma once
 
 #include <vector>

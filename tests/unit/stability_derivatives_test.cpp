@@ -42,10 +42,8 @@ double Coefficient(const PointResult& p, const std::string& name) {
   return p.Cn;
 }
 
-PointResult Solve(const Case& c, bool half = true) {
-  RunOptions o;
-  o.allow_half_model = half;
-  Results r = Run(c, o);
+PointResult Solve(const Case& c) {
+  Results r = Run(c, {});
   EXPECT_EQ(r.points.size(), 1u);
   return r.points.front();
 }
