@@ -32,11 +32,16 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <cstdint>
 #include <functional>
 #include <utility>
 
 #include "skein/biot_savart.hpp"
 #include "vec3.hpp"
+
+#if defined(__linux__)
+#include <sys/mman.h>
+#endif
 
 #if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
 #define SKEIN_AVX2_CLONE 1
@@ -361,6 +366,22 @@ Kernels KernelsFor() {
 }
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
 
+/// Asks the kernel to back a large matrix with transparent huge pages before its first touch (Linux, where
+/// they are enabled on request): the assembly's first writes then fault 2 MiB pages instead of 4 KiB ones and
+/// the factorisation walks the matrix with far fewer TLB misses. Only the aligned interior is advised; the
+/// memory used is the same. Elsewhere, or if the kernel declines, nothing changes.
+void AdviseHugePages(Eigen::MatrixXd& m) {
+#if defined(__linux__) && defined(MADV_HUGEPAGE)
+  constexpr std::uintptr_t kHuge = std::uintptr_t{1} << 21;
+  const auto begin = reinterpret_cast<std::uintptr_t>(m.data());
+  const std::uintptr_t end = begin + sizeof(double) * static_cast<std::uintptr_t>(m.size());
+  const std::uintptr_t first = (begin + kHuge - 1) & ~(kHuge - 1), last = end & ~(kHuge - 1);
+  if (last > first) madvise(reinterpret_cast<void*>(first), last - first, MADV_HUGEPAGE);
+#else
+  (void)m;
+#endif
+}
+
 // ---- the mirror plan of the velocity pass --------------------------------------------------------------
 
 #pragma GCC diagnostic push
@@ -509,6 +530,7 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
   for (const auto& l : layouts) {
     const auto m = static_cast<Eigen::Index>(l.panel.size());
     mats.emplace_back(m, m);
+    AdviseHugePages(mats.back());
   }
   const bool split = layouts.size() == 2;
   const bool ground = wake.ground.enabled;
