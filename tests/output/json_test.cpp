@@ -216,7 +216,9 @@ TEST_F(Output, JsonNumbersAreTheResultsExactly) {
 }
 
 TEST_F(Output, JsonStripsRunLeftTipToRightTipAndFinRootToTip) {
-  for (const json& p : Doc().at("points")) {
+  // The document must outlive the loop: a range-for over Doc().at(...) iterates a destroyed temporary.
+  const json doc = Doc();
+  for (const json& p : doc.at("points")) {
     const auto y = p.at("surfaces")[0].at("strips").at("y").get<std::vector<double>>();
     ASSERT_EQ(y.size(), 12u);
     for (std::size_t k = 1; k < y.size(); ++k) EXPECT_LT(y[k - 1], y[k]) << "wing strip " << k;
@@ -229,7 +231,8 @@ TEST_F(Output, JsonStripsRunLeftTipToRightTipAndFinRootToTip) {
 }
 
 TEST_F(Output, JsonSurfaceSharesAddUpToTheTotals) {
-  for (const json& p : Doc().at("points")) {
+  const json doc = Doc();  // outlives the loop (see above)
+  for (const json& p : doc.at("points")) {
     for (const char* k : {"CL", "CD_induced", "CY", "Cl", "Cm", "Cn"}) {
       double sum = 0.0;
       for (const json& s : p.at("surfaces")) sum += s.at(k).get<double>();
