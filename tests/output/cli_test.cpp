@@ -21,19 +21,15 @@
 
 #include "skein/case_file.hpp"
 #include "skein/run.hpp"
+#include "../support/cli_workdir.hpp"
 
 namespace {
 
 namespace fs = std::filesystem;
+using skein::testing::Outcome;
+using skein::testing::ReadFile;
 
 constexpr int kExitInput = 2;
-
-std::string ReadFile(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
 
 void WriteFile(const fs::path& p, const std::string& text) {
   std::ofstream out(p, std::ios::binary | std::ios::trunc);
@@ -49,50 +45,8 @@ int LineOf(const std::string& text, const std::string& marker) {
   return 1 + static_cast<int>(std::count(text.begin(), text.begin() + static_cast<std::ptrdiff_t>(at), '\n'));
 }
 
-struct Outcome {
-  int exit_code = -1;
-  std::string out, err;
-};
-
 /// A fresh, empty working directory per test, removed afterwards.
-class Cli : public ::testing::Test {
- protected:
-  void SetUp() override {
-    std::string tmpl = (fs::temp_directory_path() / "skein-cli-XXXXXX").string();
-    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
-    dir_ = tmpl;
-  }
-  void TearDown() override {
-    std::error_code ec;
-    fs::remove_all(dir_, ec);
-  }
-
-  /// Runs `skein ARGS` in the working directory with no standard input.
-  /// `prefix` is shell text run first in the same shell (a resource limit).
-  Outcome Skein(const std::string& args, const std::string& prefix = "") const {
-    const fs::path out = dir_ / ".stdout", err = dir_ / ".stderr";
-    const std::string cmd = "cd '" + dir_.string() + "' && " + prefix + "'" + std::string(SKEIN_BINARY) + "' " + args +
-                            " < /dev/null > '" + out.string() + "' 2> '" + err.string() + "'";
-    const int status = std::system(cmd.c_str());
-    Outcome o;
-    o.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    o.out = ReadFile(out);
-    o.err = ReadFile(err);
-    fs::remove(out);
-    fs::remove(err);
-    return o;
-  }
-
-  /// Names of the files and directories in the working directory (the capture files excluded).
-  std::vector<std::string> Entries() const {
-    std::vector<std::string> names;
-    for (const auto& e : fs::directory_iterator(dir_)) names.push_back(e.path().filename().string());
-    std::sort(names.begin(), names.end());
-    return names;
-  }
-
-  fs::path dir_;
-};
+class Cli : public skein::testing::CliWorkdir {};
 
 // A small valid case of our own (a tapered wing); the bad-input tests each break one thing in it.
 const std::string kGoodCase = R"(title = "CLI probe wing"

@@ -16,55 +16,20 @@
 
 #include "skein/case_file.hpp"
 #include "skein/run.hpp"
+#include "../support/cli_workdir.hpp"
 
 namespace {
 
 namespace fs = std::filesystem;
+using skein::testing::Outcome;
+using skein::testing::ReadFile;
 
-std::string ReadFile(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::ostringstream s;
-  s << in.rdbuf();
-  return s.str();
-}
-
-struct Outcome {
-  int exit_code = -1;
-  std::string out, err;
-};
-
-class StudyCli : public ::testing::Test {
+class StudyCli : public skein::testing::CliWorkdir {
  protected:
   void SetUp() override {
-    std::string tmpl = (fs::temp_directory_path() / "skein-study-XXXXXX").string();
-    ASSERT_NE(mkdtemp(tmpl.data()), nullptr);
-    dir_ = tmpl;
+    CliWorkdir::SetUp();
     std::ofstream(dir_ / "wing.toml") << kCase;
   }
-  void TearDown() override {
-    std::error_code ec;
-    fs::remove_all(dir_, ec);
-  }
-  Outcome Skein(const std::string& args) const {
-    const fs::path out = dir_ / ".stdout", err = dir_ / ".stderr";
-    const std::string cmd = "cd '" + dir_.string() + "' && '" + std::string(SKEIN_BINARY) + "' " + args +
-                            " < /dev/null > '" + out.string() + "' 2> '" + err.string() + "'";
-    const int status = std::system(cmd.c_str());
-    Outcome o;
-    o.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-    o.out = ReadFile(out);
-    o.err = ReadFile(err);
-    fs::remove(out);
-    fs::remove(err);
-    return o;
-  }
-  std::vector<std::string> Entries() const {
-    std::vector<std::string> names;
-    for (const auto& e : fs::directory_iterator(dir_)) names.push_back(e.path().filename().string());
-    std::sort(names.begin(), names.end());
-    return names;
-  }
-  fs::path dir_;
 
   // A small tapered wing of our own invention, coarse enough to refine twice quickly.
   static constexpr const char* kCase = R"(title = "Study probe wing"
