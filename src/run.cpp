@@ -3,6 +3,7 @@
 
 #include <chrono>
 #include <cmath>
+#include <exception>
 #include <map>
 #include <set>
 #include <utility>
@@ -111,7 +112,10 @@ Results Run(const Case& c, const RunOptions& options) {
   }
   res.points.resize(points.size());
   std::set<std::pair<int, int>> wake_warned;  // one near-the-wake warning per pair of surfaces
-  for (const auto& [key, members] : groups) {
+  // A group that cannot be solved (its wake meets another surface's control points, its system is singular)
+  // marks its points with the error and the sweep carries on; only when every point fails does Run throw.
+  std::exception_ptr first_failure;
+  for (const auto& [key, members] : groups) try {
     const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
     const std::string flight =
         freestream ? fmt::format("at alpha {:g} deg, beta {:g} deg", points[members.front()].first,
@@ -152,7 +156,22 @@ Results Run(const Case& c, const RunOptions& options) {
       }
     }
     res.times.loads += Since(t0);
+  } catch (const std::exception& e) {
+    if (!dynamic_cast<const InputError*>(&e) && !dynamic_cast<const NumericalError*>(&e)) throw;
+    if (!first_failure) first_failure = std::current_exception();
+    for (std::size_t p : members) {
+      PointResult failed;
+      failed.alpha_deg = points[p].first;
+      failed.beta_deg = points[p].second;
+      failed.mach = c.flight.mach;
+      failed.rates = c.flight.rates;
+      failed.error = e.what();
+      res.points[p] = std::move(failed);
+      res.warnings.push_back(fmt::format("point {} (alpha {:g} deg, beta {:g} deg) was not solved: {}", p + 1,
+                                         points[p].first, points[p].second, e.what()));
+    }
   }
+  if (first_failure && res.FailedPoints() == res.points.size()) std::rethrow_exception(first_failure);
   res.best_lift_to_drag = FindBestLiftToDrag(res.points);
   res.times.total = Since(t_start);
   return res;

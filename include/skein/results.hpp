@@ -3,6 +3,7 @@
 // unit non-dimensional rate (p b/2V, q c/2V, r b/2V).
 #pragma once
 
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <utility>
@@ -103,6 +104,11 @@ struct PointResult {
   std::optional<ProfileDrag> profile;      ///< present when the case gives section data or a speed
   std::optional<StallOnset> stall_onset;   ///< present when the sections give cl_max
   std::vector<std::string> warnings;
+  /// Non-empty when this point of a sweep could not be solved (its wake met another surface, say): the
+  /// message says why, and every value above other than the flight condition is absent. Run() throws instead
+  /// when no point at all could be solved, so a Results always holds at least one solved point.
+  std::string error;
+  bool solved() const { return error.empty(); }
 };
 
 /// Wall-clock seconds per stage, and threads.
@@ -154,6 +160,21 @@ struct Results {
   std::optional<BestLiftToDrag> best_lift_to_drag;  ///< over the sweep, when profile drag was estimated
   StageTimes times;
   std::optional<TrimResult> trim;  ///< set by Trim() only
+
+  /// The first point that was solved (Run() guarantees one): the point whose derivatives, shares and
+  /// loadings a report shows when it shows one point.
+  const PointResult& FirstSolved() const {
+    for (const PointResult& p : points)
+      if (p.solved()) return p;
+    return points.front();
+  }
+  /// How many points of the sweep could not be solved.
+  std::size_t FailedPoints() const {
+    std::size_t n = 0;
+    for (const PointResult& p : points)
+      if (!p.solved()) ++n;
+    return n;
+  }
 };
 
 }  // namespace skein

@@ -205,10 +205,11 @@ int RunSolve(const SolveArgs& a) {
   if (!a.svg.empty() && !r.points.empty()) {
     skein::report::SpanLoadingPlot plot;
     plot.title = r.title;
-    plot.alpha_deg = r.points.front().alpha_deg;
-    plot.beta_deg = r.points.front().beta_deg;
-    plot.CL = r.points.front().CL;
-    plot.series = skein::study::SpanLoadingWithElliptic(skein::BuildLattice(c), r.points.front(), r.reference);
+    const skein::PointResult& shown = r.FirstSolved();
+    plot.alpha_deg = shown.alpha_deg;
+    plot.beta_deg = shown.beta_deg;
+    plot.CL = shown.CL;
+    plot.series = skein::study::SpanLoadingWithElliptic(skein::BuildLattice(c), shown, r.reference);
     out.Add(a.svg, [&](std::ostream& f) { skein::report::WriteSpanLoadingSvg(plot, f); });
   }
   out.Commit();
@@ -216,7 +217,12 @@ int RunSolve(const SolveArgs& a) {
   if (a.json == "-") std::cout << json_text.str();
   if (!a.quiet) skein::report::WriteSummary(r, a.json == "-" ? std::cerr : std::cout);
   if (!a.quiet && convergence) skein::report::WriteConvergenceTable(*convergence, a.json == "-" ? std::cerr : std::cout);
-  return 0;
+  // Points of the sweep that could not be solved are marked in every output; the exit status says so too.
+  for (std::size_t i = 0; i < r.points.size(); ++i)
+    if (!r.points[i].solved())
+      std::cerr << fmt::format("skein: point {} (alpha {:g} deg, beta {:g} deg) was not solved: {}\n", i + 1,
+                               r.points[i].alpha_deg, r.points[i].beta_deg, r.points[i].error);
+  return r.FailedPoints() > 0 ? kExitNumerical : 0;
 }
 
 }  // namespace

@@ -26,13 +26,18 @@ std::string Text(const std::string& s) {
 void WritePointsCsv(const Results& r, std::ostream& out) {
   std::vector<std::string> deriv_names;
   if (!r.points.empty())
-    for (const auto& [k, v] : r.points.front().derivatives.items) deriv_names.push_back(k);
+    for (const auto& [k, v] : r.FirstSolved().derivatives.items) deriv_names.push_back(k);
   out << "point,alpha_deg,beta_deg,mach,p,q,r,CL,CD_induced,CD_induced_nearfield,CY,Cl,Cm,Cn,span_efficiency";
   for (const auto& k : deriv_names) out << ',' << k;
-  out << ",neutral_point_x,static_margin,CD_profile,CD_total,L_over_D,CL_stall_onset,alpha_stall_onset_deg\n";
+  out << ",neutral_point_x,static_margin,CD_profile,CD_total,L_over_D,CL_stall_onset,alpha_stall_onset_deg,error\n";
   for (std::size_t i = 0; i < r.points.size(); ++i) {
     const PointResult& p = r.points[i];
     out << i;
+    if (!p.solved()) {  // the flight condition, every value empty, and why
+      for (double v : {p.alpha_deg, p.beta_deg, p.mach, p.rates[0], p.rates[1], p.rates[2]}) out << ',' << Cell(v);
+      out << std::string(7 + 1 + deriv_names.size() + 2 + 3 + 2 + 1, ',') << Text(p.error) << '\n';
+      continue;
+    }
     for (double v : {p.alpha_deg, p.beta_deg, p.mach, p.rates[0], p.rates[1], p.rates[2], p.CL, p.CD_induced,
                      p.CD_induced_nearfield, p.CY, p.Cl, p.Cm, p.Cn})
       out << ',' << Cell(v);
@@ -47,7 +52,7 @@ void WritePointsCsv(const Results& r, std::ostream& out) {
       out << ',' << Cell(p.stall_onset->CL) << ',' << Cell(p.stall_onset->alpha_deg);
     else
       out << ",,";
-    out << '\n';
+    out << ",\n";
   }
 }
 

@@ -85,6 +85,16 @@ void WriteJson(const Results& r, std::ostream& out) {
     jp["beta_deg"] = w.Num(p.beta_deg, at + ".beta_deg");
     jp["mach"] = w.Num(p.mach, at + ".mach");
     jp["rates"] = w.Vec(p.rates, at + ".rates");
+    if (!p.solved()) {  // the flight condition, null for every value, and why (results-format.md: no NaN)
+      for (const char* k : {"CL", "CD_induced", "CD_induced_nearfield", "CY", "Cl", "Cm", "Cn", "span_efficiency",
+                            "derivatives", "neutral_point", "static_margin"})
+        jp[k] = ordered_json();
+      jp["surfaces"] = ordered_json::array();
+      jp["warnings"] = p.warnings;
+      jp["error"] = p.error;
+      points.push_back(jp);
+      continue;
+    }
     jp["CL"] = w.Num(p.CL, at + ".CL");
     jp["CD_induced"] = w.Num(p.CD_induced, at + ".CD_induced");
     jp["CD_induced_nearfield"] = w.Num(p.CD_induced_nearfield, at + ".CD_induced_nearfield");

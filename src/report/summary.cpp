@@ -141,13 +141,16 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
   out << "\n alpha   beta       CL   CD_induced  CD_i near       CY       Cl       Cm       Cn    e\n";
   out << "   deg    deg\n";
   for (const PointResult& p : r.points)
+    if (!p.solved())
+      out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.beta_deg, 6, 2) << "   NOT SOLVED (see the warning above)\n";
+    else
     out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.beta_deg, 6, 2) << ' ' << Fixed(p.CL, 8, 4) << ' '
         << Fixed(p.CD_induced, 12, 6) << ' ' << Fixed(p.CD_induced_nearfield, 9, 6) << ' ' << Fixed(p.CY, 8, 4)
         << ' ' << Fixed(p.Cl, 8, 4) << ' ' << Fixed(p.Cm, 8, 4) << ' ' << Fixed(p.Cn, 8, 4) << ' '
         << Opt(p.span_efficiency, 5, 3) << '\n';
 
   if (!r.points.empty()) {
-    const PointResult& p = r.points.front();
+    const PointResult& p = r.FirstSolved();
     WriteStability(p, out);
     WriteDownwash(p, out);
 
@@ -170,7 +173,7 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
   }
   if (!r.points.empty()) {
     bool header = false;
-    const PointResult& p = r.points.front();
+    const PointResult& p = r.FirstSolved();
     for (const SurfaceLoads& s : p.surfaces) {
       if (!s.structural) continue;
       const StructuralLoads& sv = *s.structural;
@@ -207,6 +210,7 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
     out << "\nStrip theory (section drag at each strip's cl; stall onset by the critical-section method)\n";
     out << " alpha       CL  CD_profile    CD_total     L/D   stall-onset CL  at alpha  first strip\n";
     for (const PointResult& p : r.points) {
+      if (!p.solved()) continue;
       out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.CL, 8, 4) << ' ';
       if (p.profile)
         out << Fixed(p.profile->CD_profile, 11, 6) << ' ' << Fixed(p.profile->CD_total, 11, 6) << ' '
@@ -226,8 +230,13 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
       out << "  The critical-section stall onset is OPTIMISTIC: it takes the inviscid span loading up to the first strip's\n"
              "  cl_max and ignores spanwise boundary-layer flow and Reynolds effects; real maximum lift comes from test.\n";
   }
-  out << "\nCautions: conceptual-design estimates from linear, inviscid theory; no stall, separation or viscous\n"
-         "drag. Verify by test, and follow the applicable airworthiness rules and licensed engineers.\n";
+  if (profile)
+    out << "\nCautions: conceptual-design estimates from linear, inviscid theory, which predicts no stall or separation;\n"
+           "the profile drag is a strip-theory estimate. Verify by test, and follow the applicable airworthiness rules\n"
+           "and licensed engineers.\n";
+  else
+    out << "\nCautions: conceptual-design estimates from linear, inviscid theory; no stall, separation or viscous\n"
+           "drag. Verify by test, and follow the applicable airworthiness rules and licensed engineers.\n";
   out << fmt::format("Time {:.3f} s (mesh {:.3f}, assemble {:.3f}, factorise {:.3f}, solve {:.3f}, loads {:.3f}), {} thread{}\n",
                      r.times.total, r.times.mesh, r.times.assemble, r.times.factorise, r.times.solve, r.times.loads,
                      r.times.threads_used, r.times.threads_used == 1 ? "" : "s");
