@@ -6,7 +6,9 @@
 #include <exception>
 #include <map>
 #include <set>
+#include <string>
 #include <utility>
+#include <vector>
 
 #include <fmt/format.h>
 #include <omp.h>
@@ -115,6 +117,31 @@ Results Run(const Case& c, const RunOptions& options) {
   // A group that cannot be solved (its wake meets another surface's control points, its system is singular)
   // marks its points with the error and the sweep carries on; only when every point fails does Run throw.
   std::exception_ptr first_failure;
+  const auto flight_point = [&](std::size_t p) {
+    FlightPoint fp;
+    fp.alpha_deg = points[p].first;
+    fp.beta_deg = points[p].second;
+    fp.mach = c.flight.mach;
+    fp.rates = c.flight.rates;
+    fp.speed = c.flight.speed;
+    return fp;
+  };
+  // Called inside a handler: keeps the first error to rethrow when no point at all is solved.
+  const auto mark_failed = [&](const std::vector<std::size_t>& members, const std::string& message) {
+    if (!first_failure) first_failure = std::current_exception();
+    for (std::size_t p : members) {
+      const FlightPoint fp = flight_point(p);
+      PointResult failed;
+      failed.alpha_deg = fp.alpha_deg;
+      failed.beta_deg = fp.beta_deg;
+      failed.mach = fp.mach;
+      failed.rates = fp.rates;
+      failed.error = message;
+      res.points[p] = std::move(failed);
+      res.warnings.push_back(fmt::format("point {} (alpha {:g} deg, beta {:g} deg) was not solved: {}", p + 1,
+                                         fp.alpha_deg, fp.beta_deg, message));
+    }
+  };
   for (const auto& [key, members] : groups) try {
     const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
     const std::string flight =
@@ -138,12 +165,7 @@ Results Run(const Case& c, const RunOptions& options) {
       res.warnings.push_back(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
     t0 = Clock::now();
     for (std::size_t p : members) {
-      FlightPoint fp;
-      fp.alpha_deg = points[p].first;
-      fp.beta_deg = points[p].second;
-      fp.mach = c.flight.mach;
-      fp.rates = c.flight.rates;
-      fp.speed = c.flight.speed;
+      const FlightPoint fp = flight_point(p);
       res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
       if (c.flight.speed_given) AddStructuralLoads(lat, c.flight.density, c.flight.speed, res.points[p]);
       if (c.flight.speed_given || HasSectionData(c)) {  // strip theory, and the stall-onset search
@@ -156,20 +178,10 @@ Results Run(const Case& c, const RunOptions& options) {
       }
     }
     res.times.loads += Since(t0);
-  } catch (const std::exception& e) {
-    if (!dynamic_cast<const InputError*>(&e) && !dynamic_cast<const NumericalError*>(&e)) throw;
-    if (!first_failure) first_failure = std::current_exception();
-    for (std::size_t p : members) {
-      PointResult failed;
-      failed.alpha_deg = points[p].first;
-      failed.beta_deg = points[p].second;
-      failed.mach = c.flight.mach;
-      failed.rates = c.flight.rates;
-      failed.error = e.what();
-      res.points[p] = std::move(failed);
-      res.warnings.push_back(fmt::format("point {} (alpha {:g} deg, beta {:g} deg) was not solved: {}", p + 1,
-                                         points[p].first, points[p].second, e.what()));
-    }
+  } catch (const InputError& e) {
+    mark_failed(members, e.what());
+  } catch (const NumericalError& e) {
+    mark_failed(members, e.what());
   }
   if (first_failure && res.FailedPoints() == res.points.size()) std::rethrow_exception(first_failure);
   res.best_lift_to_drag = FindBestLiftToDrag(res.points);

@@ -1,8 +1,10 @@
 // Skein report: CSV. See report/csv.hpp.
 #include "skein/report/csv.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <ostream>
+#include <string>
 
 #include <fmt/format.h>
 
@@ -27,15 +29,19 @@ void WritePointsCsv(const Results& r, std::ostream& out) {
   std::vector<std::string> deriv_names;
   if (!r.points.empty())
     for (const auto& [k, v] : r.FirstSolved().derivatives.items) deriv_names.push_back(k);
-  out << "point,alpha_deg,beta_deg,mach,p,q,r,CL,CD_induced,CD_induced_nearfield,CY,Cl,Cm,Cn,span_efficiency";
-  for (const auto& k : deriv_names) out << ',' << k;
-  out << ",neutral_point_x,static_margin,CD_profile,CD_total,L_over_D,CL_stall_onset,alpha_stall_onset_deg,error\n";
+  std::string header = "point,alpha_deg,beta_deg,mach,p,q,r,CL,CD_induced,CD_induced_nearfield,CY,Cl,Cm,Cn,span_efficiency";
+  for (const auto& k : deriv_names) header += ',' + k;
+  header += ",neutral_point_x,static_margin,CD_profile,CD_total,L_over_D,CL_stall_onset,alpha_stall_onset_deg,error";
+  out << header << '\n';
+  // A point that was not solved writes its seven flight-condition cells, leaves every value empty and puts its
+  // message in the last column: as many separators as the header has after its seventh column.
+  const auto separators = static_cast<std::size_t>(std::count(header.begin(), header.end(), ','));
   for (std::size_t i = 0; i < r.points.size(); ++i) {
     const PointResult& p = r.points[i];
     out << i;
     if (!p.solved()) {  // the flight condition, every value empty, and why
       for (double v : {p.alpha_deg, p.beta_deg, p.mach, p.rates[0], p.rates[1], p.rates[2]}) out << ',' << Cell(v);
-      out << std::string(7 + 1 + deriv_names.size() + 2 + 3 + 2 + 1, ',') << Text(p.error) << '\n';
+      out << std::string(separators - 6, ',') << Text(p.error) << '\n';
       continue;
     }
     for (double v : {p.alpha_deg, p.beta_deg, p.mach, p.rates[0], p.rates[1], p.rates[2], p.CL, p.CD_induced,
