@@ -40,7 +40,8 @@ struct SystemLayout {
 /// is exact (see above). `allow_split` = false forces the full model (tests compare the two).
 std::vector<SystemLayout> ChooseLayouts(const Lattice& lat, const WakeGeometry& wake, bool allow_split = true);
 
-/// Assembles the matrices of the given layouts (one or the symmetric/antisymmetric pair) in one pass.
+/// Assembles the matrices of the given layouts (one, the symmetric/antisymmetric pair, or the symmetric one of
+/// the pair alone) in one pass.
 /// OpenMP over columns (column-major storage); every entry is computed independently, so the result does not
 /// depend on the number of threads.
 std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::vector<SystemLayout>& layouts,
