@@ -570,7 +570,7 @@ bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, con
 }
 
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
-                                  const WakeGeometry& wake) {
+                                  const WakeGeometry& wake, const std::vector<bool>* only) {
   const std::size_t np = points.size(), ns = lat.panels();
   const Eigen::Index k = gamma.cols();
   SKEIN_ASSERT(static_cast<std::size_t>(gamma.rows()) == ns);
@@ -580,7 +580,16 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   out.w.setZero(static_cast<Eigen::Index>(np), k);
   if (np == 0 || ns == 0 || k == 0) return out;
 
-  const MirrorPlan plan = PlanMirror(lat, points, wake);
+  MirrorPlan plan = PlanMirror(lat, points, wake);
+  if (only) {  // only the targets asked for (a mirrored pair when either of its points is)
+    SKEIN_ASSERT(only->size() == np);
+    const auto asked = [&](const std::pair<std::size_t, std::ptrdiff_t>& t) {
+      return (*only)[t.first] || (t.second >= 0 && (*only)[static_cast<std::size_t>(t.second)]);
+    };
+    plan.targets.erase(std::remove_if(plan.targets.begin(), plan.targets.end(),
+                                      [&](const auto& t) { return !asked(t); }),
+                       plan.targets.end());
+  }
   const bool ground = wake.ground.enabled;
   ShoeTable table, table_ground;
   for (std::size_t j : plan.order) {

@@ -13,6 +13,7 @@
 #include <Eigen/LU>
 #include <fmt/format.h>
 
+#include "skein/loads.hpp"
 #include "vec3.hpp"
 
 namespace skein {
@@ -225,7 +226,13 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
       const auto s = static_cast<Eigen::Index>(physical.surface[static_cast<std::size_t>(i)]);
       by_surface.block(i, kBasisSize * s, 1, kBasisSize) = out.gamma.block(i, 0, 1, kBasisSize);
     }
-    out.control_point_velocity = InducedVelocityAt(lat, lat.control, by_surface, swake);
+    // Only the rows something reads: the control panels (below) and the surfaces whose downwash from the
+    // surfaces ahead is reported (loads.cpp, SurfacesAhead); the other rows stay zero.
+    const std::vector<std::vector<int>> ahead = SurfacesAhead(physical);
+    std::vector<bool> rows(physical.panels(), false);
+    for (std::size_t i = 0; i < physical.panels(); ++i)
+      rows[i] = physical.control_of[i] >= 0 || !ahead[static_cast<std::size_t>(physical.surface[i])].empty();
+    out.control_point_velocity = InducedVelocityAt(lat, lat.control, by_surface, swake, &rows);
     out.control_point_velocity.u /= beta;  // back to physical axes, as for the bound velocities below
     out.seconds_velocity += Since(t0);
   }

@@ -53,8 +53,10 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
 struct InducedVelocity {
   Eigen::MatrixXd u, v, w;
 };
+/// `only` (one flag per point), when given, limits the work to the points flagged: the rows of the others are
+/// zero, except the mirror images of flagged points on the mirror path, which come for free.
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
-                                  const WakeGeometry& wake);
+                                  const WakeGeometry& wake, const std::vector<bool>* only = nullptr);
 
 /// True when InducedVelocityAt takes its mirror path for these arguments: `points` holds one point per panel,
 /// and the lattice, the points and the wake are bit-exact mirror images of themselves (every mirrored panel's

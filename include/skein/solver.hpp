@@ -79,7 +79,8 @@ struct BasisSolution {
   InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
   /// Velocity induced at the control points by each surface alone, for the six basis columns: column
   /// 6 s + k holds surface s's share of basis field k (panels x 6 surfaces). Empty for a single surface
-  /// without controls. The downwash a surface sees from the others is a sum of these blocks.
+  /// without controls. The downwash a surface sees from the others is a sum of these blocks. Computed only
+  /// at the control panels and on the surfaces that have a surface ahead (SurfacesAhead); elsewhere zero.
   InducedVelocity control_point_velocity;
   double rcond = 1.0;   ///< smallest reciprocal condition estimate (1-norm) of the systems factorised
   SolveStatus status = SolveStatus::ok;
