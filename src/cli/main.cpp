@@ -43,6 +43,7 @@ struct SolveArgs {
   std::size_t refine_max_panels = 6000;
   std::string svg;
   bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
+  std::vector<std::string> probes;  ///< `--probe NAME=X,Y,Z`, added after the case's [[probe]] tables
 };
 
 struct TwistArgs {
@@ -113,6 +114,7 @@ int RunSolve(const SolveArgs& a) {
   using Clock = std::chrono::steady_clock;
   const auto t0 = Clock::now();
   skein::Case c = skein::ReadCaseFile(a.case_path);
+  for (const std::string& p : a.probes) skein::AddProbe(c, skein::ParseProbeArgument(p));
   const double t_read = std::chrono::duration<double>(Clock::now() - t0).count();
   if (a.echo) {
     skein::WriteCaseToml(c, std::cout);
@@ -149,6 +151,8 @@ int RunSolve(const SolveArgs& a) {
     out.Add(fs::path(a.csv_dir) / "points.csv", [&](std::ostream& f) { skein::report::WritePointsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "structural.csv", [&](std::ostream& f) { skein::report::WriteStructuralCsv(r, f); });
+    if (!c.probes.empty())
+      out.Add(fs::path(a.csv_dir) / "probes.csv", [&](std::ostream& f) { skein::report::WriteProbesCsv(r, f); });
   }
   if (!a.svg.empty() && !r.points.empty()) {
     skein::report::SpanLoadingPlot plot;
@@ -193,6 +197,11 @@ int main(int argc, char** argv) {
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
   solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
   solve->add_flag("--quiet", a.quiet, "print no summary");
+  solve->add_option("--probe", a.probes,
+                    "report the flow (velocity, downwash, sidewash, q/q_inf) at a point, NAME=X,Y,Z in metres, "
+                    "geometry axes; repeatable, added to the case's [[probe]] tables (--csv adds probes.csv)")
+      ->type_name("NAME=X,Y,Z")
+      ->allow_extra_args(false);
   solve->add_option("--svg", a.svg,
                     "write the span loading of the first point (cl c/c_ref, with the elliptic loading of the same "
                     "lift) as an SVG plot to FILE")
