@@ -47,9 +47,12 @@
 
 namespace skein {
 
-/// A probe this many core radii (Lattice::core4) or closer to a vortex segment gets no values. At 4 the
-/// regularisation has removed less than 0.4 % of that segment's velocity; closer in it dominates.
-inline constexpr double kProbeCoreRadii = 4.0;
+/// A probe this many core radii (Lattice::core4) or closer to a vortex segment gets no values. At 3 the
+/// regularisation has removed 1.2 % of that segment's velocity (1 / (1 + 3^4)); closer in it soon dominates
+/// and the velocity falls to zero on the line. The solver itself uses velocities this close (a narrow strip's
+/// control point next to a wider strip's leg lies at about 3.3 of that leg's core radii in a cosine mesh), and
+/// the geometry check refuses a control point only inside one core radius (geometry_check.hpp).
+inline constexpr double kProbeCoreRadii = 3.0;
 
 /// The flow-basis velocities at a set of points, for one wake geometry (one BasisSolution).
 struct ProbeSample {
