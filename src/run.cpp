@@ -16,6 +16,7 @@
 
 #include "skein/geometry_check.hpp"
 #include "skein/influence.hpp"
+#include "skein/probe.hpp"
 #include "skein/profile_drag.hpp"
 #include "skein/structural.hpp"
 #include "vec3.hpp"
@@ -226,9 +227,13 @@ Results Run(const Case& c, const RunOptions& options) {
     if (basis.status == SolveStatus::ill_conditioned)
       res.warnings.push_back(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
     t0 = Clock::now();
+    const ProbeSample probes = SampleProbes(lat, basis, c.probes);  // the flow at the case's probes (probe.hpp)
     for (std::size_t p : members) {
       const FlightPoint fp = flight_point(p);
       res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
+      res.points[p].probes = EvaluateProbes(probes, c.reference.moment_point, fp);
+      for (const ProbeResult& pr : res.points[p].probes)
+        if (!pr.note.empty()) res.points[p].warnings.push_back(pr.note);
       if (c.flight.speed_given) AddStructuralLoads(lat, c.flight.density, c.flight.speed, res.points[p]);
       if (c.flight.speed_given || HasSectionData(c)) {  // strip theory, and the stall-onset search
         const auto loads_at = [&](double alpha_deg) {

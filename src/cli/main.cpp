@@ -44,6 +44,7 @@ struct SolveArgs {
   std::size_t refine_max_panels = 6000;
   std::string svg;
   bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
+  std::vector<std::string> probes;  ///< `--probe NAME=X,Y,Z`, added after the case's [[probe]] tables
 };
 
 struct TwistArgs {
@@ -114,6 +115,7 @@ int RunSolve(const SolveArgs& a) {
   using Clock = std::chrono::steady_clock;
   const auto t0 = Clock::now();
   skein::Case c = skein::ReadCaseFile(a.case_path);
+  for (const std::string& p : a.probes) skein::AddProbe(c, skein::ParseProbeArgument(p));
   const double t_read = std::chrono::duration<double>(Clock::now() - t0).count();
   if (a.echo) {
     skein::WriteCaseToml(c, std::cout);
@@ -163,6 +165,8 @@ int RunSolve(const SolveArgs& a) {
     out.Add(fs::path(a.csv_dir) / "points.csv", [&](std::ostream& f) { skein::report::WritePointsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "structural.csv", [&](std::ostream& f) { skein::report::WriteStructuralCsv(r, f); });
+    if (!c.probes.empty())
+      out.Add(fs::path(a.csv_dir) / "probes.csv", [&](std::ostream& f) { skein::report::WriteProbesCsv(r, f); });
   }
   if (!a.svg.empty() && !r.points.empty()) {
     skein::report::SpanLoadingPlot plot;
@@ -210,6 +214,11 @@ int main(int argc, char** argv) {
                   "in symmetric flight, skip the lateral derivatives (beta, p, r): a mirror-symmetric case then "
                   "solves only its symmetric half system");
   solve->add_flag("--quiet", a.quiet, "print no summary");
+  solve->add_option("--probe", a.probes,
+                    "report the flow (velocity, downwash, sidewash, q/q_inf) at a point, NAME=X,Y,Z in metres, "
+                    "geometry axes; repeatable, added to the case's [[probe]] tables (--csv adds probes.csv)")
+      ->type_name("NAME=X,Y,Z")
+      ->allow_extra_args(false);
   solve->add_option("--svg", a.svg,
                     "write the span loading of the first point (cl c/c_ref, with the elliptic loading of the same "
                     "lift) as an SVG plot to FILE")
