@@ -81,7 +81,8 @@ symmetric = true
   return skein::ReadCaseText(text, "bench-wing.toml");
 }
 
-/// Wing, tail and centre-line fin. `scale` multiplies the spanwise counts: scale 1 gives 2800 + 800 + 400 =
+/// Wing, tail and centre-line fin; the wing and the tail leave the fuselage's place open (their roots at
+/// y = 0.3 and 0.12 m), so that with the freestream wake no trailing leg of theirs runs through the fin. `scale` multiplies the spanwise counts: scale 1 gives 2800 + 800 + 400 =
 /// 4000 panels, scale 2.5 gives 10 000. `lateral_controls` adds the aileron and the rudder to the elevator.
 std::string AircraftText(double scale, bool lateral_controls, const std::string& alpha, const std::string& wake) {
   const int ws = static_cast<int>(140 * scale), ts = static_cast<int>(50 * scale), fs = static_cast<int>(50 * scale);
@@ -114,8 +115,8 @@ wake = "{wake}"
 name = "wing"
 symmetric = true
   [surface.trapezoid]
-  root_leading_edge = [0.0, 0.0, 0.0]
-  span = 11.0
+  root_leading_edge = [0.0, 0.3, 0.0]
+  span = 11.6
   root_chord = 1.5
   taper = 0.6
   sweep = 3.0
