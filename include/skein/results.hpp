@@ -139,6 +139,8 @@ struct MeshSummary {
   std::size_t unknowns = 0;  ///< size of the largest linear system (half of the panels with the half model)
   bool half_model = false;
   int factorisations = 0;    ///< one per wake geometry
+  bool lateral = true;       ///< false: lateral derivatives skipped on request (RunOptions::lateral)
+  std::size_t memory_estimate_bytes = 0;  ///< the run's memory estimate, given before the assembly
   struct Surface {
     std::string name;
     std::size_t panels = 0, strips = 0;

@@ -37,6 +37,7 @@ struct SolveArgs {
   bool echo = false;
   bool quiet = false;
   bool full_model = false;
+  bool no_lateral = false;
   int threads = 0;
   std::size_t max_panels = 0;
   bool refine = false;
@@ -124,6 +125,18 @@ int RunSolve(const SolveArgs& a) {
   ro.threads = a.threads;
   ro.max_panels = a.max_panels;
   ro.allow_half_model = !a.full_model;
+  ro.lateral = !a.no_lateral;
+  if (!a.quiet && !a.trim)  // the plan and its memory, before the long work; with the summary's stream
+    ro.on_plan = [&a](const skein::RunPlan& p) {
+      (a.json == "-" ? std::cerr : std::cout)
+          << fmt::format("Plan: {} panels, {}, largest system {} unknowns, {} factorisation{}, {} thread{}; "
+                         "memory estimate {:.1f} MB\n",
+                         p.panels,
+                         !p.half_model ? "full model" : p.lateral ? "half model" : "half model, symmetric system only",
+                         p.unknowns, p.factorisations, p.factorisations == 1 ? "" : "s", p.threads,
+                         p.threads == 1 ? "" : "s", static_cast<double>(p.memory_estimate_bytes) / 1e6)
+          << std::flush;
+    };
   skein::Results r = a.trim ? skein::Trim(c, ro) : skein::Run(c, ro);
   r.times.read = t_read;
   r.times.total += t_read;
@@ -133,6 +146,7 @@ int RunSolve(const SolveArgs& a) {
     co.max_panels = a.max_panels ? std::min(a.max_panels, a.refine_max_panels) : a.refine_max_panels;
     co.run = ro;
     co.run.max_panels = 0;
+    co.run.on_plan = nullptr;  // the plan line is the main run's only
     convergence = skein::study::MeshConvergence(c, co);
   }
 
@@ -196,6 +210,9 @@ int main(int argc, char** argv) {
   solve->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
   solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
+  solve->add_flag("--no-lateral", a.no_lateral,
+                  "in symmetric flight, skip the lateral derivatives (beta, p, r): a mirror-symmetric case then "
+                  "solves only its symmetric half system");
   solve->add_flag("--quiet", a.quiet, "print no summary");
   solve->add_option("--probe", a.probes,
                     "report the flow (velocity, downwash, sidewash, q/q_inf) at a point, NAME=X,Y,Z in metres, "

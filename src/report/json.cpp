@@ -73,7 +73,9 @@ void WriteJson(const Results& r, std::ostream& out) {
                  {"surfaces", surfaces}};
   doc["solver"] = {{"rcond", w.Num(r.rcond, "solver.rcond")},
                    {"threads_given", r.times.threads_given},
-                   {"threads_used", r.times.threads_used}};
+                   {"threads_used", r.times.threads_used},
+                   {"memory_estimate_bytes", r.mesh.memory_estimate_bytes},
+                   {"lateral_derivatives", r.mesh.lateral}};
   doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
                     "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
   ordered_json points = ordered_json::array();
