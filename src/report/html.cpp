@@ -17,7 +17,12 @@ namespace {
 std::string H(const std::string& s) { return plot::XmlEscape(s); }
 
 /// A table cell's number: fixed decimals, or "n/a".
-std::string Num(double v, int digits) { return std::isfinite(v) ? fmt::format("{:.{}f}", v, digits) : "n/a"; }
+std::string Num(double v, int digits) {
+  if (!std::isfinite(v)) return "n/a";
+  std::string s = fmt::format("{:.{}f}", v, digits);
+  if (s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos) s.erase(0, 1);  // "-0.0000" is 0
+  return s;
+}
 std::string Num(const std::optional<double>& v, int digits) { return v ? Num(*v, digits) : "n/a"; }
 
 std::string Stem(const std::string& file) {
