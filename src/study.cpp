@@ -535,6 +535,7 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
     e.cl_peak_eta = semi > 0.0 ? std::abs(sl.y[peak]) / semi : std::numeric_limits<double>::quiet_NaN();
     e.cl_peak_over_CL = sl.cl[peak] / p.point.CL;
     if (p.point.neutral_point) e.neutral_point_x = (*p.point.neutral_point)[0];
+    e.span_loading = SpanLoadingWithElliptic(p.lattice, p.point, c.reference);
     cmp.entries.push_back(e);
   }
   for (std::size_t i = 0; i < cmp.entries.size(); ++i) cmp.ranked.push_back(i);

@@ -206,6 +206,8 @@ struct CompareOptions {
   RunOptions run;
 };
 
+struct SpanLoadingSeries;
+
 struct CompareEntry {
   std::string title, source;
   double alpha_deg = 0.0;           ///< needed for the target CL
@@ -217,6 +219,7 @@ struct CompareEntry {
   double cl_peak_over_CL = 0.0;     ///< that peak cl over the configuration CL
   std::optional<double> neutral_point_x;  ///< m
   int rank = 0;                     ///< 1 = least induced drag; equal drags share a rank
+  std::vector<SpanLoadingSeries> span_loading;  ///< at the target CL (SpanLoadingWithElliptic), for plots
 };
 
 struct Comparison {

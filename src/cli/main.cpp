@@ -23,6 +23,7 @@
 #include "skein/report/svg.hpp"
 #include "skein/study.hpp"
 #include "outputs.hpp"
+#include "plots_report.hpp"
 
 namespace fs = std::filesystem;
 
@@ -43,6 +44,7 @@ struct SolveArgs {
   bool refine = false;
   std::size_t refine_max_panels = 6000;
   std::string svg;
+  PlotsReportArgs plots;  ///< --plots DIR, --report FILE (plots_report.hpp)
   bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
   std::vector<std::string> probes;  ///< `--probe NAME=X,Y,Z`, added after the case's [[probe]] tables
 };
@@ -83,6 +85,7 @@ struct CompareArgs {
   double cl = 0.0;
   bool cl_given = false;
   std::string json, csv_dir;
+  std::string svg;  ///< --svg FILE: the cases' span loadings overlaid
 };
 
 int RunCompare(const CompareArgs& t) {
@@ -105,6 +108,7 @@ int RunCompare(const CompareArgs& t) {
     MakeOutputDirectory(t.csv_dir);
     out.Add(fs::path(t.csv_dir) / "compare.csv", [&](std::ostream& f) { skein::report::WriteComparisonCsv(cmp, f); });
   }
+  StageComparisonSvg(out, t.svg, cmp);
   out.Commit();
   if (t.json == "-") std::cout << json_text.str();
   skein::report::WriteComparisonTable(cmp, t.json == "-" ? std::cerr : std::cout);
@@ -178,6 +182,7 @@ int RunSolve(const SolveArgs& a) {
     plot.series = skein::study::SpanLoadingWithElliptic(skein::BuildLattice(c), shown, r.reference);
     out.Add(a.svg, [&](std::ostream& f) { skein::report::WriteSpanLoadingSvg(plot, f); });
   }
+  StagePlotsAndReport(out, a.plots, a.case_path, c, r, convergence ? &*convergence : nullptr);
   out.Commit();
   r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
   if (a.json == "-") std::cout << json_text.str();
@@ -241,6 +246,8 @@ int main(int argc, char** argv) {
       ->type_name("DIR");
   trim->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
   trim->add_flag("--quiet", a.quiet, "print no summary");
+  AddPlotsReportOptions(solve, a.plots);
+  AddPlotsReportOptions(trim, a.plots);
   TwistArgs tw;
   CLI::App* twist = app.add_subcommand(
       "twist", "Design the spanwise twist of a wing for least induced drag at a target CL.\n"
@@ -265,6 +272,8 @@ int main(int argc, char** argv) {
   compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
       ->type_name("FILE");
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
+  compare->add_option("--svg", cmp.svg, "write the cases' span loadings at the common CL, overlaid, as an SVG plot to FILE")
+      ->type_name("FILE");
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
