@@ -23,6 +23,7 @@
 #include "skein/report/svg.hpp"
 #include "skein/study.hpp"
 #include "outputs.hpp"
+#include "study_command.hpp"
 
 namespace fs = std::filesystem;
 
@@ -239,6 +240,7 @@ int main(int argc, char** argv) {
   compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
       ->type_name("FILE");
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
+  const Command study = AddStudyCommand(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -250,6 +252,7 @@ int main(int argc, char** argv) {
     if (*solve || *trim) return RunSolve(a);
     if (*twist) return RunTwist(a.case_path, tw);
     if (*compare) return RunCompare(cmp);
+    if (*study.app) return study.run();
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;

@@ -230,4 +230,121 @@ void WriteTwistDesignJson(const study::TwistDesign& d, std::ostream& out) {
   out << doc.dump(2) << '\n';
 }
 
+// ---- parameter studies ------------------------------------------------------------------------------------
+
+namespace {
+
+std::optional<double> LeastDragAt(const study::Study& s) {
+  if (s.axes.size() != 1) return std::nullopt;
+  std::vector<double> cd;
+  for (const study::StudyVariant& v : s.variants) cd.push_back(v.CD_induced);
+  return study::ParabolicMinimum(s.axes.front().values, cd);
+}
+
+/// The last key of a path, cut to a column's width: the table's column head.
+std::string ColumnHead(const std::string& path, std::size_t width) {
+  const std::size_t dot = path.rfind('.');
+  std::string head = dot == std::string::npos ? path : path.substr(dot + 1);
+  if (head.size() > width) head = head.substr(0, width);
+  return head;
+}
+
+}  // namespace
+
+void WriteStudyTable(const study::Study& s, std::ostream& out) {
+  out << fmt::format("Skein parameter study: {}\n", s.title);
+  if (s.target_CL)
+    out << fmt::format("Every variant at CL {:.4f} (the angle of attack found for each)\n", *s.target_CL);
+  else
+    out << fmt::format("Every variant at alpha {:.2f} deg\n", s.alpha_deg.value_or(0.0));
+  for (std::size_t a = 0; a < s.axes.size(); ++a)
+    out << fmt::format("  varied: {} ({} values)\n", s.axes[a].path, s.axes[a].values.size());
+  out << fmt::format("  {} variants, {} at a time on {} thread{} each\n\n", s.variants.size(),
+                     s.threads.concurrent_cases, s.threads.threads_per_case, s.threads.threads_per_case == 1 ? "" : "s");
+  std::string head, units;
+  for (const study::StudyAxis& axis : s.axes) {
+    head += fmt::format("{:>12} ", ColumnHead(axis.path, 12));
+    units += fmt::format("{:>12} ", "");
+  }
+  out << head << " alpha       CL   CD_induced      e       Cm  CL_alpha  root bending   neutral pt  cl peak at   peak cl\n";
+  out << units << "   deg                                          /rad    /(q S b)         x m   y/semi-span  / CL\n";
+  for (const study::StudyVariant& v : s.variants) {
+    std::string row;
+    for (double x : v.values) row += fmt::format("{:>12g} ", x);
+    out << row
+        << fmt::format("{} {} {} {} {} {} {} {} {} {}\n", Cell(v.alpha_deg, 6, 2), Cell(v.CL, 8, 4),
+                       Cell(v.CD_induced, 12, 6), Cell(OrNan(v.span_efficiency), 6, 3), Cell(v.Cm, 8, 4),
+                       Cell(OrNan(v.CL_alpha), 9, 3), Cell(OrNan(v.root_bending), 13, 5),
+                       Cell(OrNan(v.neutral_point_x), 12, 4), Cell(OrNan(v.cl_peak_eta), 11, 3),
+                       Cell(v.cl_peak_over_CL, 9, 3));
+  }
+  if (const std::optional<double> at = LeastDragAt(s))
+    out << fmt::format("\nLeast induced drag at {} = {:.4g} (parabola through the three best variants)\n",
+                       s.axes.front().path, *at);
+  else if (s.axes.size() == 1)
+    out << "\nLeast induced drag: at an end of the range (or the values are not in order), so not located\n";
+  out << "  (root bending: the first surface's right half about the x axis through its root; cl peak: the first\n"
+         "   surface's largest local cl, an indication of where stall would begin, not a stall prediction)\n";
+  for (const std::string& w : s.warnings) out << "warning: " << w << '\n';
+  out << '\n';
+  WriteCautions(out);
+}
+
+void WriteStudyJson(const study::Study& s, std::ostream& out) {
+  std::vector<std::string> problems;
+  ordered_json axes = ordered_json::array();
+  for (const study::StudyAxis& a : s.axes) axes.push_back({{"path", a.path}, {"values", a.values}});
+  ordered_json variants = ordered_json::array();
+  for (std::size_t i = 0; i < s.variants.size(); ++i) {
+    const study::StudyVariant& v = s.variants[i];
+    const std::string at = fmt::format("variants[{}]", i);
+    const auto opt = [&](const std::optional<double>& x, const char* name) {
+      return x ? Num(*x, at + "." + name, problems) : ordered_json();
+    };
+    variants.push_back({{"values", v.values},
+                        {"alpha_deg", Num(v.alpha_deg, at + ".alpha_deg", problems)},
+                        {"CL", Num(v.CL, at + ".CL", problems)},
+                        {"CD_induced", Num(v.CD_induced, at + ".CD_induced", problems)},
+                        {"span_efficiency", opt(v.span_efficiency, "span_efficiency")},
+                        {"Cm", Num(v.Cm, at + ".Cm", problems)},
+                        {"CL_alpha", opt(v.CL_alpha, "CL_alpha")},
+                        {"root_bending", opt(v.root_bending, "root_bending")},
+                        {"neutral_point_x", opt(v.neutral_point_x, "neutral_point_x")},
+                        {"cl_peak_eta", opt(v.cl_peak_eta, "cl_peak_eta")},
+                        {"cl_peak_over_CL", Num(v.cl_peak_over_CL, at + ".cl_peak_over_CL", problems)}});
+  }
+  ordered_json doc;
+  doc["format"] = "skein-study";
+  doc["version"] = 1;
+  doc["title"] = s.title;
+  doc["source"] = s.source;
+  doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
+                    "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
+  if (s.target_CL)
+    doc["target"] = {{"CL", *s.target_CL}};
+  else
+    doc["target"] = {{"alpha_deg", s.alpha_deg.value_or(0.0)}};
+  doc["axes"] = axes;
+  doc["variants"] = variants;
+  const std::optional<double> least = LeastDragAt(s);
+  doc["least_induced_drag_at"] = least ? ordered_json(*least) : ordered_json();
+  std::vector<std::string> warnings = s.warnings;
+  warnings.insert(warnings.end(), problems.begin(), problems.end());
+  doc["warnings"] = warnings;
+  out << doc.dump(2) << '\n';
+}
+
+void WriteStudyCsv(const study::Study& s, std::ostream& out) {
+  for (const study::StudyAxis& a : s.axes) out << CsvField(a.path) << ',';
+  out << "alpha_deg,CL,CD_induced,span_efficiency,Cm,CL_alpha,root_bending,neutral_point_x,cl_peak_eta,"
+         "cl_peak_over_CL\n";
+  for (const study::StudyVariant& v : s.variants) {
+    for (double x : v.values) out << CsvNum(x) << ',';
+    out << CsvNum(v.alpha_deg) << ',' << CsvNum(v.CL) << ',' << CsvNum(v.CD_induced) << ','
+        << CsvNum(OrNan(v.span_efficiency)) << ',' << CsvNum(v.Cm) << ',' << CsvNum(OrNan(v.CL_alpha)) << ','
+        << CsvNum(OrNan(v.root_bending)) << ',' << CsvNum(OrNan(v.neutral_point_x)) << ','
+        << CsvNum(OrNan(v.cl_peak_eta)) << ',' << CsvNum(v.cl_peak_over_CL) << '\n';
+  }
+}
+
 }  // namespace skein::report
