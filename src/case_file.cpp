@@ -4,8 +4,8 @@
 //   file:line:column: <where in the case>: <what is wrong, and what was expected>
 // with <where in the case> one of `reference`, `flight`, `flight: alpha range`, `ground`, `mesh`,
 // `surface "wing"`, `surface "wing" section 2`, `surface "tail" trapezoid`, `surface "wing" control "aileron"`,
-// `trim` (nothing for the top level). Positions point at the offending key (unknown keys) or value (wrong type,
-// out of range), or at the table's header when a key is missing.
+// `trim`, `probe "pitot"` (nothing for the top level). Positions point at the offending key (unknown keys) or
+// value (wrong type, out of range), or at the table's header when a key is missing.
 #include "skein/case_file.hpp"
 
 #include "skein/airfoil.hpp"
@@ -200,7 +200,7 @@ struct Level {
   std::vector<std::pair<std::string_view, std::string_view>> misplaced = {};
 };
 
-const Level kRootLevel{"at the top of the file, before any table", {"title", "reference", "flight", "ground", "mesh", "surface", "trim"}};
+const Level kRootLevel{"at the top of the file, before any table", {"title", "reference", "flight", "ground", "mesh", "surface", "trim", "probe"}};
 const Level kReferenceLevel{"in [reference]", {"area", "span", "chord", "moment_point"}};
 const Level kFlightLevel{"in [flight]",
                          {"alpha", "beta", "speed", "density", "mach", "rates", "altitude"},
@@ -232,11 +232,17 @@ const Level kTrapezoidLevel{"in [surface.trapezoid]",
 const Level kPolarLevel{"in a polar table { cl = [...], cd = [...] }", {"cl", "cd"}};
 const Level kControlLevel{"in [[surface.control]]", {"name", "hinge", "span_fraction", "deflection", "mirror"}};
 const Level kTrimLevel{"in [trim]", {"lift_coefficient", "weight", "adjust"}};
+const Level kProbeLevel{"in [[probe]]",
+                        {"name", "point"},
+                        {{"position", "did you mean \"point\"?"},
+                         {"location", "did you mean \"point\"?"},
+                         {"leading_edge", "a probe is one point: write point = [x, y, z]"}}};
 
 const std::vector<const Level*> kAllLevels = {&kRootLevel,    &kReferenceLevel, &kFlightLevel,
                                               &kRangeLevel,   &kGroundLevel,    &kMeshLevel,
                                               &kSurfaceLevel, &kSectionLevel,   &kTrapezoidLevel,
-                                              &kControlLevel, &kTrimLevel,      &kPolarLevel};
+                                              &kControlLevel, &kTrimLevel,      &kPolarLevel,
+                                              &kProbeLevel};
 
 /// The "(...)" hint for an unknown key, or "" if nothing useful can be said.
 std::string UnknownKeyHint(std::string_view key, const Level& here) {
@@ -321,6 +327,7 @@ class Reader {
   void CheckGeometry(const Surface& s, const std::vector<ReadSection>& sections, const std::string& ctx) const;
   Control ReadControl(const toml::table& t, int index, const std::string& surface_ctx, bool symmetric) const;
   void ReadTrim(const toml::table& t, const Case& c, TrimRequest& trim) const;
+  void ReadProbes(const toml::node& n, Case& c) const;
 
   std::string file_;
   std::vector<std::string> warnings_;
@@ -936,6 +943,33 @@ void Reader::ReadTrim(const toml::table& t, const Case& c, TrimRequest& trim) co
   }
 }
 
+// ---- [[probe]] --------------------------------------------------------------------------------------------------
+
+// Points where the flow is reported (probe.hpp): a unique name and a point above any ground plane.
+void Reader::ReadProbes(const toml::node& n, Case& c) const {
+  const toml::array& a = TableArrayAt(n, "\"probe\"", "", " (write [[probe]])");
+  for (std::size_t k = 0; k < a.size(); ++k) {
+    const toml::table& t = *a[k].as_table();
+    std::string ctx = fmt::format("probe {}", k + 1);
+    if (const toml::node* nn = t.get("name"); nn != nullptr && nn->is_string())
+      ctx = "probe " + Quote(nn->as_string()->get());
+    CheckKeys(t, kProbeLevel, ctx);
+    Probe p;
+    p.where = Where(t.source());
+    const toml::node& name = Require(t, "name", ctx);
+    p.name = StringAt(name, "\"name\"", ctx);
+    if (p.name.empty()) Fail(name, ctx, "name must not be empty");
+    for (std::size_t j = 0; j < c.probes.size(); ++j)
+      if (c.probes[j].name == p.name)
+        Fail(name, ctx, fmt::format("name already used by probe {} (line {})", j + 1, c.probes[j].where.line));
+    const toml::node& point = Require(t, "point", ctx);
+    p.point = Vec3At(point, "\"point\"", ctx);
+    if (c.ground.enabled && !(p.point[2] > c.ground.height_z))
+      Fail(point, ctx, fmt::format("point z = {} is not above the ground plane z = {}", p.point[2], c.ground.height_z));
+    c.probes.push_back(std::move(p));
+  }
+}
+
 // ---- the whole case ---------------------------------------------------------------------------------------------
 
 Case Reader::Read(std::string_view text) {
@@ -1015,6 +1049,7 @@ Case Reader::Read(std::string_view text) {
   }
 
   if (const toml::node* n = root.get("trim")) ReadTrim(TableAt(*n, "\"trim\"", "", " (write [trim])"), c, c.trim);
+  if (const toml::node* n = root.get("probe")) ReadProbes(*n, c);
 
   // Mesh size guard, with the panel count the mesher will produce (lattice.cpp, CountPanels): explicit section
   // counts, the rest sharing the surface count with at least one panel each, two more strips per control, at
@@ -1179,6 +1214,8 @@ void WriteCaseToml(const Case& c, std::ostream& out) {
     if (c.trim.weight) o += fmt::format("weight = {}\n", Num(*c.trim.weight));
     o += fmt::format("adjust = {}\n", TomlString(c.trim.adjust));
   }
+
+  for (const Probe& p : c.probes) o += fmt::format("\n[[probe]]\nname = {}\npoint = {}\n", TomlString(p.name), Vec(p.point));
   out << o;
 }
 

@@ -511,10 +511,14 @@ std::vector<SystemLayout> ChooseLayouts(const Lattice& lat, const WakeGeometry& 
 std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::vector<SystemLayout>& layouts,
                                                const WakeGeometry& wake) {
   SKEIN_ASSERT(layouts.size() == 1 || layouts.size() == 2);
-  // The widest layout lists every unknown; a symmetric layout is a prefix of its antisymmetric partner.
+  // The widest layout lists every unknown; a symmetric layout is a prefix of its antisymmetric partner. A
+  // symmetric layout alone (SolveBasis without the lateral columns) runs the same pair kernel and keeps only
+  // the sums: the differences go to a scratch column.
   const SystemLayout& wide = layouts.back();
+  const bool sym_only = layouts.size() == 1 && wide.kind == SystemLayout::Kind::symmetric;
+  SKEIN_ASSERT(layouts.size() == 1 || layouts[0].kind == SystemLayout::Kind::symmetric);
   const std::size_t n = wide.panel.size();
-  const std::size_t n_sym = layouts.size() == 2 ? layouts[0].panel.size() : 0;
+  const std::size_t n_sym = layouts.size() == 2 ? layouts[0].panel.size() : sym_only ? n : 0;
   std::vector<double> px(n), py(n), pz(n), nx(n), ny(n), nz(n);
   for (std::size_t i = 0; i < n; ++i) {
     const std::size_t p = wide.panel[i];
@@ -532,27 +536,31 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
     mats.emplace_back(m, m);
     AdviseHugePages(mats.back());
   }
-  const bool split = layouts.size() == 2;
+  const bool split = layouts.size() == 2 || sym_only;
   const bool ground = wake.ground.enabled;
   const Kernels kernels = KernelsFor(ground);
   const auto ni = static_cast<std::ptrdiff_t>(n);
-#pragma omp parallel for schedule(static)
-  for (std::ptrdiff_t jj = 0; jj < ni; ++jj) {
-    const auto j = static_cast<std::size_t>(jj);
-    const Shoe src = LoadShoe(lat, wide.panel[j], wake);
-    const Shoe src_ground = ground ? GroundImage(src, wake) : src;
-    const bool has_image = wide.image[j] >= 0;
-    double* col_wide = mats.back().col(jj).data();
-    double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
-    if (!split || !has_image) {
-      // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
-      kernels.direct(targets, src, src_ground, col_wide);
-      if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
-      continue;
+#pragma omp parallel
+  {
+    std::vector<double> scratch(sym_only ? n : 0);
+#pragma omp for schedule(static)
+    for (std::ptrdiff_t jj = 0; jj < ni; ++jj) {
+      const auto j = static_cast<std::size_t>(jj);
+      const Shoe src = LoadShoe(lat, wide.panel[j], wake);
+      const Shoe src_ground = ground ? GroundImage(src, wake) : src;
+      const bool has_image = wide.image[j] >= 0;
+      double* col_wide = sym_only ? scratch.data() : mats.back().col(jj).data();
+      double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
+      if (!split || !has_image) {
+        // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
+        kernels.direct(targets, src, src_ground, col_wide);
+        if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
+        continue;
+      }
+      const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
+      const Shoe img_ground = ground ? GroundImage(img, wake) : img;
+      kernels.pair(targets, src, src_ground, img, img_ground, col_sym ? n_sym : 0, col_wide, col_sym);
     }
-    const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
-    const Shoe img_ground = ground ? GroundImage(img, wake) : img;
-    kernels.pair(targets, src, src_ground, img, img_ground, col_sym ? n_sym : 0, col_wide, col_sym);
   }
   return mats;
 }
@@ -562,7 +570,7 @@ bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, con
 }
 
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
-                                  const WakeGeometry& wake) {
+                                  const WakeGeometry& wake, const std::vector<bool>* only) {
   const std::size_t np = points.size(), ns = lat.panels();
   const Eigen::Index k = gamma.cols();
   SKEIN_ASSERT(static_cast<std::size_t>(gamma.rows()) == ns);
@@ -572,7 +580,16 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   out.w.setZero(static_cast<Eigen::Index>(np), k);
   if (np == 0 || ns == 0 || k == 0) return out;
 
-  const MirrorPlan plan = PlanMirror(lat, points, wake);
+  MirrorPlan plan = PlanMirror(lat, points, wake);
+  if (only) {  // only the targets asked for (a mirrored pair when either of its points is)
+    SKEIN_ASSERT(only->size() == np);
+    const auto asked = [&](const std::pair<std::size_t, std::ptrdiff_t>& t) {
+      return (*only)[t.first] || (t.second >= 0 && (*only)[static_cast<std::size_t>(t.second)]);
+    };
+    plan.targets.erase(std::remove_if(plan.targets.begin(), plan.targets.end(),
+                                      [&](const auto& t) { return !asked(t); }),
+                       plan.targets.end());
+  }
   const bool ground = wake.ground.enabled;
   ShoeTable table, table_ground;
   for (std::size_t j : plan.order) {

@@ -295,6 +295,10 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
   }};
   double cz_alpha = 0.0;  // d(F . e_z)/d alpha / (q S): the force normal to the x axis, for the neutral point
   for (const Variable& var : vars) {
+    // Without the lateral columns (SolverOptions::lateral) the beta, roll-rate and yaw-rate derivatives are
+    // not known: they are left out rather than given as zero.
+    const std::string name = var.name;
+    if (!basis.lateral_solved && (name == "beta" || name == "p" || name == "r")) continue;
     Wrench dw;
     for (std::size_t k = 0; k < kBasisSize; ++k) {
       dw.force = dw.force + var.dc[k] * d_total[k].force;

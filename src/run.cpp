@@ -15,6 +15,8 @@
 #include <unistd.h>
 
 #include "skein/geometry_check.hpp"
+#include "skein/influence.hpp"
+#include "skein/probe.hpp"
 #include "skein/profile_drag.hpp"
 #include "skein/structural.hpp"
 #include "vec3.hpp"
@@ -27,12 +29,18 @@ double Since(Clock::time_point t0) { return std::chrono::duration<double>(Clock:
 
 }  // namespace
 
-std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, bool half_model) {
+std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, const std::vector<std::size_t>& systems) {
   const std::size_t cols = 6 * (1 + controls);
-  // Half model: a symmetric and an antisymmetric matrix of (N/2)^2 each; full: one N^2 matrix.
-  const std::size_t matrix = half_model ? 2 * (panels / 2 + 1) * (panels / 2 + 1) : panels * panels;
-  // Matrix, right-hand sides, circulations and induced velocities (4 x N x cols), lattice (~60 doubles/panel).
+  std::size_t matrix = 0;
+  for (std::size_t m : systems) matrix += m * m;
+  // Matrices, right-hand sides, circulations and induced velocities (4 x N x cols), lattice (~60 doubles/panel).
   return 8 * (matrix + 6 * panels * cols + 60 * panels);
+}
+
+std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, bool half_model) {
+  // Half model: a symmetric and an antisymmetric matrix of (N/2)^2 each; full: one N^2 matrix.
+  if (half_model) return EstimateMemoryBytes(panels, controls, {panels / 2 + 1, panels / 2 + 1});
+  return EstimateMemoryBytes(panels, controls, std::vector<std::size_t>{panels});
 }
 
 std::size_t PhysicalMemoryBytes() {
@@ -126,6 +134,49 @@ Results Run(const Case& c, const RunOptions& options) {
     fp.speed = c.flight.speed;
     return fp;
   };
+
+  // Lateral derivatives skipped on request only if every point is in symmetric flight (the lateral flow
+  // parameters v, p, r vanish), so that every point of the sweep has the same outputs.
+  bool symmetric_flight = true;
+  for (std::size_t p = 0; p < points.size(); ++p) {
+    const auto cf = FlowParameters(flight_point(p));
+    if (std::abs(cf[1]) > 0.0 || std::abs(cf[3]) > 0.0 || std::abs(cf[5]) > 0.0) symmetric_flight = false;
+  }
+  so.lateral = options.lateral || !symmetric_flight;
+
+  // The plan, before the long work: the largest systems any wake geometry needs, and their memory.
+  {
+    RunPlan plan;
+    plan.panels = lat.panels();
+    plan.threads = res.times.threads_used;
+    plan.lateral = true;
+    plan.factorisations = static_cast<int>(groups.size());
+    std::vector<std::size_t> biggest_systems;
+    std::size_t biggest_bytes = 0;
+    for (const auto& [key, members] : groups) {
+      const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
+      std::vector<SystemLayout> layouts = ChooseLayouts(lat, wake, so.allow_half_model);
+      const bool split = layouts.size() == 2;
+      if (split && !so.lateral && !LateralSystemNeeded(lat, layouts)) {
+        layouts.pop_back();
+        plan.lateral = false;
+      }
+      std::vector<std::size_t> sizes;
+      for (const SystemLayout& l : layouts) {
+        sizes.push_back(l.panel.size());
+        plan.unknowns = std::max(plan.unknowns, l.panel.size());
+      }
+      plan.half_model = plan.half_model || split;
+      const std::size_t bytes = EstimateMemoryBytes(lat.panels(), lat.controls.size(), sizes);
+      if (bytes > biggest_bytes) {
+        biggest_bytes = bytes;
+        biggest_systems = sizes;
+      }
+    }
+    plan.memory_estimate_bytes = biggest_bytes;
+    res.mesh.memory_estimate_bytes = biggest_bytes;
+    if (options.on_plan) options.on_plan(plan);
+  }
   // Called inside a handler: keeps the first error to rethrow when no point at all is solved.
   const auto mark_failed = [&](const std::vector<std::size_t>& members, const std::string& message) {
     if (!first_failure) first_failure = std::current_exception();
@@ -158,15 +209,20 @@ Results Run(const Case& c, const RunOptions& options) {
     res.rcond = std::min(res.rcond, basis.rcond);
     res.mesh.unknowns = std::max(res.mesh.unknowns, basis.unknowns);
     res.mesh.half_model = basis.layouts.front().kind != SystemLayout::Kind::full;
+    res.mesh.lateral = res.mesh.lateral && basis.lateral_solved;
     ++res.mesh.factorisations;
     if (basis.status == SolveStatus::singular || basis.status == SolveStatus::non_finite)
       throw NumericalError(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
     if (basis.status == SolveStatus::ill_conditioned)
       res.warnings.push_back(basis.message + "; " + DiagnoseCloseApproach(lat, wake.direction));
     t0 = Clock::now();
+    const ProbeSample probes = SampleProbes(lat, basis, c.probes);  // the flow at the case's probes (probe.hpp)
     for (std::size_t p : members) {
       const FlightPoint fp = flight_point(p);
       res.points[p] = ComputeLoads(lat, c.reference, basis, fp);
+      res.points[p].probes = EvaluateProbes(probes, c.reference.moment_point, fp);
+      for (const ProbeResult& pr : res.points[p].probes)
+        if (!pr.note.empty()) res.points[p].warnings.push_back(pr.note);
       if (c.flight.speed_given) AddStructuralLoads(lat, c.flight.density, c.flight.speed, res.points[p]);
       if (c.flight.speed_given || HasSectionData(c)) {  // strip theory, and the stall-onset search
         const auto loads_at = [&](double alpha_deg) {
@@ -184,6 +240,9 @@ Results Run(const Case& c, const RunOptions& options) {
     mark_failed(members, e.what());
   }
   if (first_failure && res.FailedPoints() == res.points.size()) std::rethrow_exception(first_failure);
+  if (!res.mesh.lateral)
+    res.warnings.push_back("lateral derivatives (beta, p, r) not computed: only the symmetric half system was "
+                           "solved, as asked (symmetric flight)");
   res.best_lift_to_drag = FindBestLiftToDrag(res.points);
   res.times.total = Since(t_start);
   return res;

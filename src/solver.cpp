@@ -13,6 +13,7 @@
 #include <Eigen/LU>
 #include <fmt/format.h>
 
+#include "skein/loads.hpp"
 #include "vec3.hpp"
 
 namespace skein {
@@ -22,6 +23,48 @@ using Clock = std::chrono::steady_clock;
 double Since(Clock::time_point t0) { return std::chrono::duration<double>(Clock::now() - t0).count(); }
 
 }  // namespace
+
+struct InPlaceLu::Impl {
+  explicit Impl(Eigen::MatrixXd& a) : lu(a) {}
+  Eigen::PartialPivLU<Eigen::Ref<Eigen::MatrixXd>> lu;
+};
+InPlaceLu::InPlaceLu(Eigen::MatrixXd& a) : impl_(std::make_unique<Impl>(a)) {}
+InPlaceLu::~InPlaceLu() = default;
+Eigen::MatrixXd InPlaceLu::Solve(const Eigen::MatrixXd& b) const { return impl_->lu.solve(b); }
+double InPlaceLu::Rcond() const { return impl_->lu.rcond(); }
+const char* InPlaceLu::Backend() {
+#if defined(SKEIN_HAVE_LAPACKE)
+  return "OpenBLAS/LAPACKE";
+#else
+  return "Eigen";
+#endif
+}
+
+bool LateralSystemNeeded(const Lattice& lat, const std::vector<SystemLayout>& layouts) {
+  if (layouts.size() != 2) return false;
+  const SystemLayout& sym = layouts[0];
+  const SystemLayout& anti = layouts[1];
+  constexpr double kTol = 1e-13;
+  for (std::size_t k = 0; k < anti.panel.size(); ++k) {
+    const std::size_t p = anti.panel[k];
+    const int img = anti.image[k];
+    if (k >= sym.panel.size() || img < 0) {
+      // Its own image: only the antisymmetric system holds it, so any control on it is lateral.
+      if (lat.control_of[p] >= 0 && (std::abs(lat.normal_rate.x[p]) > kTol || std::abs(lat.normal_rate.y[p]) > kTol ||
+                                     std::abs(lat.normal_rate.z[p]) > kTol))
+        return true;
+      continue;
+    }
+    const auto m = static_cast<std::size_t>(img);
+    if (lat.control_of[p] != lat.control_of[m]) return true;
+    if (lat.control_of[p] < 0) continue;
+    if (std::abs(lat.normal_rate.x[p] - lat.normal_rate.x[m]) > kTol ||
+        std::abs(lat.normal_rate.y[p] + lat.normal_rate.y[m]) > kTol ||
+        std::abs(lat.normal_rate.z[p] - lat.normal_rate.z[m]) > kTol)
+      return true;
+  }
+  return false;
+}
 
 std::string ToString(SolveStatus s) {
   switch (s) {
@@ -96,6 +139,12 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   WakeGeometry swake = wake;  // the same lines in stretched axes
   swake.direction = Normalized(Vec3{wake.direction[0] / beta, wake.direction[1], wake.direction[2]});
   out.layouts = ChooseLayouts(lat, swake, options.allow_half_model);
+  // Symmetric flight without lateral derivatives: the longitudinal columns have symmetric right-hand sides
+  // (to round-off), so the symmetric system alone gives them.
+  if (!options.lateral && out.layouts.size() == 2 && !LateralSystemNeeded(lat, out.layouts)) {
+    out.layouts.pop_back();
+    out.lateral_solved = false;
+  }
 
   auto t0 = Clock::now();
   std::vector<Eigen::MatrixXd> mats = AssembleInfluence(lat, out.layouts, swake);
@@ -107,8 +156,7 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   out.gamma = Eigen::MatrixXd::Zero(rhs.rows(), ncols);
 
   // Factorise each system once (in place: no second copy of the matrix), then solve column blocks with it.
-  using InPlaceLU = Eigen::PartialPivLU<Eigen::Ref<Eigen::MatrixXd>>;
-  std::vector<std::unique_ptr<InPlaceLU>> lus(out.layouts.size());
+  std::vector<std::unique_ptr<InPlaceLu>> lus(out.layouts.size());
   auto solve_columns = [&](Eigen::Index first, Eigen::Index count) {
     for (std::size_t l = 0; l < out.layouts.size(); ++l) {
       const SystemLayout& lay = out.layouts[l];
@@ -129,12 +177,12 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
       }
       if (!lus[l]) {
         t0 = Clock::now();
-        lus[l] = std::make_unique<InPlaceLU>(mats[l]);
+        lus[l] = std::make_unique<InPlaceLu>(mats[l]);
         out.seconds_factorise += Since(t0);
-        out.rcond = std::min(out.rcond, lus[l]->rcond());
+        out.rcond = std::min(out.rcond, lus[l]->Rcond());
       }
       t0 = Clock::now();
-      const Eigen::MatrixXd x = lus[l]->solve(b);
+      const Eigen::MatrixXd x = lus[l]->Solve(b);
       out.seconds_solve += Since(t0);
       for (Eigen::Index i = 0; i < m; ++i) {
         const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
@@ -146,6 +194,11 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
         }
       }
     }
+    // Without the antisymmetric system the lateral columns (v, roll and yaw rates; antisymmetric right-hand
+    // sides) are not solved: leave them zero rather than the symmetric part of nothing.
+    if (!out.lateral_solved)
+      for (Eigen::Index col = first; col < first + count; ++col)
+        if (col % kBasisSize == 1 || col % kBasisSize == 3 || col % kBasisSize == 5) out.gamma.col(col).setZero();
   };
   solve_columns(0, kBasisSize);
   if (!(out.rcond >= kSingularRcond)) {
@@ -173,7 +226,13 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
       const auto s = static_cast<Eigen::Index>(physical.surface[static_cast<std::size_t>(i)]);
       by_surface.block(i, kBasisSize * s, 1, kBasisSize) = out.gamma.block(i, 0, 1, kBasisSize);
     }
-    out.control_point_velocity = InducedVelocityAt(lat, lat.control, by_surface, swake);
+    // Only the rows something reads: the control panels (below) and the surfaces whose downwash from the
+    // surfaces ahead is reported (loads.cpp, SurfacesAhead); the other rows stay zero.
+    const std::vector<std::vector<int>> ahead = SurfacesAhead(physical);
+    std::vector<bool> rows(physical.panels(), false);
+    for (std::size_t i = 0; i < physical.panels(); ++i)
+      rows[i] = physical.control_of[i] >= 0 || !ahead[static_cast<std::size_t>(physical.surface[i])].empty();
+    out.control_point_velocity = InducedVelocityAt(lat, lat.control, by_surface, swake, &rows);
     out.control_point_velocity.u /= beta;  // back to physical axes, as for the bound velocities below
     out.seconds_velocity += Since(t0);
   }

@@ -149,6 +149,13 @@ struct TrimRequest {
   SourceRegion where;
 };
 
+/// A point where the flow is reported (probe.hpp): a tail, a propeller disc, a pitot boom, a sensor.
+struct Probe {
+  std::string name;            ///< unique among the case's probes
+  Vec3 point{0.0, 0.0, 0.0};   ///< m, geometry axes (the case file's)
+  SourceRegion where;          ///< the [[probe]] table, or line 0 for one given on the command line
+};
+
 struct Case {
   std::string title;
   std::string source_path;  ///< the file it came from ("" when built in code)
@@ -158,6 +165,7 @@ struct Case {
   MeshOptions mesh;  ///< the case-level defaults
   std::vector<Surface> surfaces;
   TrimRequest trim;
+  std::vector<Probe> probes;  ///< [[probe]] tables, then `solve --probe` arguments, in the order given
   std::vector<std::string> warnings;  ///< reader warnings (not errors), one sentence each
 };
 

@@ -40,7 +40,8 @@ struct SystemLayout {
 /// is exact (see above). `allow_split` = false forces the full model (tests compare the two).
 std::vector<SystemLayout> ChooseLayouts(const Lattice& lat, const WakeGeometry& wake, bool allow_split = true);
 
-/// Assembles the matrices of the given layouts (one or the symmetric/antisymmetric pair) in one pass.
+/// Assembles the matrices of the given layouts (one, the symmetric/antisymmetric pair, or the symmetric one of
+/// the pair alone) in one pass.
 /// OpenMP over columns (column-major storage); every entry is computed independently, so the result does not
 /// depend on the number of threads.
 std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::vector<SystemLayout>& layouts,
@@ -52,8 +53,10 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
 struct InducedVelocity {
   Eigen::MatrixXd u, v, w;
 };
+/// `only` (one flag per point), when given, limits the work to the points flagged: the rows of the others are
+/// zero, except the mirror images of flagged points on the mirror path, which come for free.
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
-                                  const WakeGeometry& wake);
+                                  const WakeGeometry& wake, const std::vector<bool>* only = nullptr);
 
 /// True when InducedVelocityAt takes its mirror path for these arguments: `points` holds one point per panel,
 /// and the lattice, the points and the wake are bit-exact mirror images of themselves (every mirrored panel's

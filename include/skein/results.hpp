@@ -90,6 +90,21 @@ struct BestLiftToDrag {
   double L_over_D = 0.0, CL = 0.0, alpha_deg = 0.0;
 };
 
+/// The flow at one probe of one flight point (probe.hpp). Velocities are per unit airspeed V, in geometry axes
+/// (x aft, y right, z up): the local velocity of the air relative to the aircraft, onset flow (freestream and
+/// body rotation) plus the velocity the lattice induces. The values are absent when the probe lies in a vortex
+/// core (`note` says which), and for a point that was not solved (which has no probes at all).
+struct ProbeResult {
+  std::string name;
+  Vec3 point{0.0, 0.0, 0.0};              ///< m, geometry axes
+  std::optional<Vec3> velocity;           ///< (u, v, w) / V
+  std::optional<double> downwash_deg;     ///< deg, positive: the local flow turned down from the freestream
+  std::optional<double> sidewash_deg;     ///< deg, positive: turned toward the side direction (right wing)
+  std::optional<double> q_ratio;          ///< q / q_inf = |V_local|^2 / V^2
+  bool in_core = false;                   ///< true: within kProbeCoreRadii core radii of a vortex segment
+  std::string note;                       ///< why there are no values (empty when there are)
+};
+
 /// One flight point of a sweep.
 struct PointResult {
   double alpha_deg = 0.0, beta_deg = 0.0, mach = 0.0;
@@ -103,6 +118,7 @@ struct PointResult {
   std::vector<SurfaceLoads> surfaces;
   std::optional<ProfileDrag> profile;      ///< present when the case gives section data or a speed
   std::optional<StallOnset> stall_onset;   ///< present when the sections give cl_max
+  std::vector<ProbeResult> probes;         ///< one per Case::probes entry, in order (empty when not solved)
   std::vector<std::string> warnings;
   /// Non-empty when this point of a sweep could not be solved (its wake met another surface, say): the
   /// message says why, and every value above other than the flight condition is absent. Run() throws instead
@@ -123,6 +139,8 @@ struct MeshSummary {
   std::size_t unknowns = 0;  ///< size of the largest linear system (half of the panels with the half model)
   bool half_model = false;
   int factorisations = 0;    ///< one per wake geometry
+  bool lateral = true;       ///< false: lateral derivatives skipped on request (RunOptions::lateral)
+  std::size_t memory_estimate_bytes = 0;  ///< the run's memory estimate, given before the assembly
   struct Surface {
     std::string name;
     std::size_t panels = 0, strips = 0;

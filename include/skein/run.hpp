@@ -8,6 +8,8 @@
 #pragma once
 
 #include <cstddef>
+#include <functional>
+#include <vector>
 
 #include "skein/case.hpp"
 #include "skein/lattice.hpp"
@@ -17,15 +19,36 @@
 
 namespace skein {
 
+/// What Run is about to do, known once the mesh is built and before the assembly (the long work) starts.
+struct RunPlan {
+  std::size_t panels = 0;
+  std::size_t unknowns = 0;        ///< size of the largest linear system
+  bool half_model = false;         ///< the symmetric/antisymmetric split of a mirror-symmetric case
+  bool lateral = true;             ///< false: the antisymmetric system is skipped (RunOptions::lateral)
+  int factorisations = 0;          ///< one per wake geometry
+  int threads = 1;                 ///< OpenMP threads
+  std::size_t memory_estimate_bytes = 0;  ///< peak memory of the solve (EstimateMemoryBytes)
+};
+
 struct RunOptions {
   int threads = 0;               ///< OpenMP threads; 0 = the OpenMP default (all cores)
   bool allow_half_model = true;  ///< false forces the full lattice (tests compare the two)
   std::size_t max_panels = 0;    ///< refuse a mesh with more panels; 0 = limited by memory only
   std::size_t memory_limit_bytes = 0;  ///< refuse a mesh needing more; 0 = the machine's physical memory
+  /// false: in symmetric flight (no sideslip, no roll or yaw rate at any point of the sweep) skip the lateral
+  /// stability derivatives (beta, p, r): a half-model case whose controls all deflect symmetrically then
+  /// assembles and factorises its symmetric half system only. Ignored when some point is not symmetric.
+  bool lateral = true;
+  /// Called once, before the assembly, with what the run will do and the memory it will need (the library
+  /// prints nothing; the command line shows it).
+  std::function<void(const RunPlan&)> on_plan;
 };
 
 /// Bytes the solve of a case with this many panels needs at its peak (the influence matrix dominates).
 std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, bool half_model);
+
+/// The same for linear systems of the given sizes (one entry per matrix held at once).
+std::size_t EstimateMemoryBytes(std::size_t panels, std::size_t controls, const std::vector<std::size_t>& systems);
 
 /// The machine's physical memory in bytes (0 if unknown).
 std::size_t PhysicalMemoryBytes();

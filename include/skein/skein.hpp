@@ -12,6 +12,7 @@
 #include "skein/influence.hpp"
 #include "skein/lattice.hpp"
 #include "skein/loads.hpp"
+#include "skein/probe.hpp"
 #include "skein/profile_drag.hpp"
 #include "skein/report/csv.hpp"
 #include "skein/report/json.hpp"

@@ -9,6 +9,7 @@
 #pragma once
 
 #include <cstddef>
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -40,6 +41,30 @@ inline constexpr double kSingularRcond = 1e-14;
 struct SolverOptions {
   int threads = 0;           ///< OpenMP threads for assembly and loads; 0 = the OpenMP default
   bool allow_half_model = true;  ///< false forces the full lattice even for a mirror-symmetric configuration
+  /// false: the caller needs only the longitudinal columns (u, w and the pitch rate, of the basis and of every
+  /// control), as in symmetric flight without lateral derivatives. With the half model and controls that all
+  /// deflect symmetrically (LateralSystemNeeded), the antisymmetric system is then neither assembled nor
+  /// factorised, and the lateral columns (v, roll and yaw rates) of `gamma` are left zero.
+  bool lateral = true;
+};
+
+/// LU factorisation with partial pivoting of a square matrix, in place: the matrix passed in is overwritten by
+/// its factors and must outlive this object (no second copy of it). The factorisation SolveBasis uses:
+/// OpenBLAS dgetrf through LAPACKE in a build with SKEIN_USE_OPENBLAS, Eigen's own PartialPivLU otherwise.
+class InPlaceLu {
+ public:
+  explicit InPlaceLu(Eigen::MatrixXd& a);
+  ~InPlaceLu();
+  InPlaceLu(const InPlaceLu&) = delete;
+  InPlaceLu& operator=(const InPlaceLu&) = delete;
+  Eigen::MatrixXd Solve(const Eigen::MatrixXd& b) const;
+  double Rcond() const;  ///< reciprocal condition estimate in the 1-norm
+  /// "OpenBLAS/LAPACKE" or "Eigen": what factorises in this build.
+  static const char* Backend();
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
 };
 
 /// Circulations of the flow basis on the full lattice, and the velocities they induce at the bound-vortex
@@ -54,14 +79,21 @@ struct BasisSolution {
   InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
   /// Velocity induced at the control points by each surface alone, for the six basis columns: column
   /// 6 s + k holds surface s's share of basis field k (panels x 6 surfaces). Empty for a single surface
-  /// without controls. The downwash a surface sees from the others is a sum of these blocks.
+  /// without controls. The downwash a surface sees from the others is a sum of these blocks. Computed only
+  /// at the control panels and on the surfaces that have a surface ahead (SurfacesAhead); elsewhere zero.
   InducedVelocity control_point_velocity;
   double rcond = 1.0;   ///< smallest reciprocal condition estimate (1-norm) of the systems factorised
   SolveStatus status = SolveStatus::ok;
   std::string message;  ///< what went wrong, naming the likely cause, when status != ok
   std::size_t unknowns = 0;  ///< size of the largest system factorised
+  bool lateral_solved = true;  ///< false: the lateral columns were not solved (SolverOptions::lateral)
   double seconds_assemble = 0.0, seconds_factorise = 0.0, seconds_solve = 0.0, seconds_velocity = 0.0;
 };
+
+/// True when the longitudinal columns of a half-model solve need the antisymmetric system: some control
+/// deflects the two halves differently (an aileron, say) or turns the normals of panels in the plane y = 0 (a
+/// rudder). Elevators and flaps on mirrored halves do not. `layouts` as ChooseLayouts returns them.
+bool LateralSystemNeeded(const Lattice& lat, const std::vector<SystemLayout>& layouts);
 
 /// Onset velocity of basis field k (0..5) at point r, for the moment point r_ref.
 Vec3 BasisOnset(int k, const Vec3& r, const Vec3& r_ref);

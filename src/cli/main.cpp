@@ -38,12 +38,14 @@ struct SolveArgs {
   bool echo = false;
   bool quiet = false;
   bool full_model = false;
+  bool no_lateral = false;
   int threads = 0;
   std::size_t max_panels = 0;
   bool refine = false;
   std::size_t refine_max_panels = 6000;
   std::string svg;
   bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
+  std::vector<std::string> probes;  ///< `--probe NAME=X,Y,Z`, added after the case's [[probe]] tables
 };
 
 struct TwistArgs {
@@ -114,6 +116,7 @@ int RunSolve(const SolveArgs& a) {
   using Clock = std::chrono::steady_clock;
   const auto t0 = Clock::now();
   skein::Case c = skein::ReadCaseFile(a.case_path);
+  for (const std::string& p : a.probes) skein::AddProbe(c, skein::ParseProbeArgument(p));
   const double t_read = std::chrono::duration<double>(Clock::now() - t0).count();
   if (a.echo) {
     skein::WriteCaseToml(c, std::cout);
@@ -123,6 +126,18 @@ int RunSolve(const SolveArgs& a) {
   ro.threads = a.threads;
   ro.max_panels = a.max_panels;
   ro.allow_half_model = !a.full_model;
+  ro.lateral = !a.no_lateral;
+  if (!a.quiet && !a.trim)  // the plan and its memory, before the long work; with the summary's stream
+    ro.on_plan = [&a](const skein::RunPlan& p) {
+      (a.json == "-" ? std::cerr : std::cout)
+          << fmt::format("Plan: {} panels, {}, largest system {} unknowns, {} factorisation{}, {} thread{}; "
+                         "memory estimate {:.1f} MB\n",
+                         p.panels,
+                         !p.half_model ? "full model" : p.lateral ? "half model" : "half model, symmetric system only",
+                         p.unknowns, p.factorisations, p.factorisations == 1 ? "" : "s", p.threads,
+                         p.threads == 1 ? "" : "s", static_cast<double>(p.memory_estimate_bytes) / 1e6)
+          << std::flush;
+    };
   skein::Results r = a.trim ? skein::Trim(c, ro) : skein::Run(c, ro);
   r.times.read = t_read;
   r.times.total += t_read;
@@ -132,6 +147,7 @@ int RunSolve(const SolveArgs& a) {
     co.max_panels = a.max_panels ? std::min(a.max_panels, a.refine_max_panels) : a.refine_max_panels;
     co.run = ro;
     co.run.max_panels = 0;
+    co.run.on_plan = nullptr;  // the plan line is the main run's only
     convergence = skein::study::MeshConvergence(c, co);
   }
 
@@ -150,6 +166,8 @@ int RunSolve(const SolveArgs& a) {
     out.Add(fs::path(a.csv_dir) / "points.csv", [&](std::ostream& f) { skein::report::WritePointsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "strips.csv", [&](std::ostream& f) { skein::report::WriteStripsCsv(r, f); });
     out.Add(fs::path(a.csv_dir) / "structural.csv", [&](std::ostream& f) { skein::report::WriteStructuralCsv(r, f); });
+    if (!c.probes.empty())
+      out.Add(fs::path(a.csv_dir) / "probes.csv", [&](std::ostream& f) { skein::report::WriteProbesCsv(r, f); });
   }
   if (!a.svg.empty() && !r.points.empty()) {
     skein::report::SpanLoadingPlot plot;
@@ -193,7 +211,15 @@ int main(int argc, char** argv) {
   solve->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
   solve->add_option("--max-panels", a.max_panels, "refuse a mesh with more panels than this");
   solve->add_flag("--full-model", a.full_model, "solve the whole lattice even for a mirror-symmetric case");
+  solve->add_flag("--no-lateral", a.no_lateral,
+                  "in symmetric flight, skip the lateral derivatives (beta, p, r): a mirror-symmetric case then "
+                  "solves only its symmetric half system");
   solve->add_flag("--quiet", a.quiet, "print no summary");
+  solve->add_option("--probe", a.probes,
+                    "report the flow (velocity, downwash, sidewash, q/q_inf) at a point, NAME=X,Y,Z in metres, "
+                    "geometry axes; repeatable, added to the case's [[probe]] tables (--csv adds probes.csv)")
+      ->type_name("NAME=X,Y,Z")
+      ->allow_extra_args(false);
   solve->add_option("--svg", a.svg,
                     "write the span loading of the first point (cl c/c_ref, with the elliptic loading of the same "
                     "lift) as an SVG plot to FILE")

@@ -72,6 +72,17 @@ void WriteStripsCsv(const Results& r, std::ostream& out) {
             << ',' << Cell(s.strips.cl_c_over_cref[k]) << '\n';
 }
 
+void WriteProbesCsv(const Results& r, std::ostream& out) {
+  out << "point,probe,x,y,z,u,v,w,downwash_deg,sidewash_deg,q_ratio,in_core,note\n";
+  for (std::size_t i = 0; i < r.points.size(); ++i)
+    for (const ProbeResult& p : r.points[i].probes) {
+      out << i << ',' << Text(p.name) << ',' << Cell(p.point[0]) << ',' << Cell(p.point[1]) << ',' << Cell(p.point[2]);
+      for (std::size_t k = 0; k < 3; ++k) out << ',' << (p.velocity ? Cell((*p.velocity)[k]) : std::string());
+      out << ',' << Cell(p.downwash_deg) << ',' << Cell(p.sidewash_deg) << ',' << Cell(p.q_ratio) << ','
+          << (p.in_core ? "true" : "false") << ',' << Text(p.note) << '\n';
+    }
+}
+
 void WriteStructuralCsv(const Results& r, std::ostream& out) {
   out << "point,surface,station,shear_N,bending_Nm\n";
   for (std::size_t i = 0; i < r.points.size(); ++i)

@@ -73,7 +73,9 @@ void WriteJson(const Results& r, std::ostream& out) {
                  {"surfaces", surfaces}};
   doc["solver"] = {{"rcond", w.Num(r.rcond, "solver.rcond")},
                    {"threads_given", r.times.threads_given},
-                   {"threads_used", r.times.threads_used}};
+                   {"threads_used", r.times.threads_used},
+                   {"memory_estimate_bytes", r.mesh.memory_estimate_bytes},
+                   {"lateral_derivatives", r.mesh.lateral}};
   doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
                     "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
   ordered_json points = ordered_json::array();
@@ -90,6 +92,7 @@ void WriteJson(const Results& r, std::ostream& out) {
                             "derivatives", "neutral_point", "static_margin"})
         jp[k] = ordered_json();
       jp["surfaces"] = ordered_json::array();
+      jp["probes"] = ordered_json::array();
       jp["warnings"] = p.warnings;
       jp["error"] = p.error;
       points.push_back(jp);
@@ -168,6 +171,27 @@ void WriteJson(const Results& r, std::ostream& out) {
                            {"already_beyond", p.stall_onset->already_beyond},
                            {"method", "critical section: the first strip to reach its section cl_max, inviscid "
                                       "span loading; optimistic, verify by test"}};
+    ordered_json probes = ordered_json::array();  // probe.hpp; a value is null when the probe lies in a core
+    for (const ProbeResult& pr : p.probes) {
+      const std::string pat = at + ".probes." + pr.name;
+      const auto opt = [&](const std::optional<double>& v, const char* k) {
+        return v ? w.Num(*v, pat + "." + k) : ordered_json();
+      };
+      ordered_json o;
+      o["name"] = pr.name;
+      o["point"] = w.Vec(pr.point, pat + ".point");
+      for (std::size_t k = 0; k < 3; ++k) {
+        const char* key = k == 0 ? "u" : k == 1 ? "v" : "w";
+        o[key] = pr.velocity ? w.Num((*pr.velocity)[k], pat + "." + key) : ordered_json();
+      }
+      o["downwash_deg"] = opt(pr.downwash_deg, "downwash_deg");
+      o["sidewash_deg"] = opt(pr.sidewash_deg, "sidewash_deg");
+      o["q_ratio"] = opt(pr.q_ratio, "q_ratio");
+      o["in_core"] = pr.in_core;
+      o["note"] = pr.note;
+      probes.push_back(o);
+    }
+    jp["probes"] = probes;
     jp["warnings"] = p.warnings;
     points.push_back(jp);
   }

@@ -101,6 +101,43 @@ void WriteDownwash(const PointResult& p, std::ostream& out) {
   }
 }
 
+/// The flow at the probes (probe.hpp), every solved point of the sweep; a probe in a vortex core shows no
+/// numbers, and why is said once under the table.
+void WriteProbes(const Results& r, std::ostream& out) {
+  std::vector<ProbeResult> listed;
+  for (const PointResult& p : r.points)
+    if (p.solved() && !p.probes.empty()) {
+      listed = p.probes;
+      break;
+    }
+  if (listed.empty()) return;
+  out << "\nFlow at the probes: u, v, w per unit airspeed in geometry axes (x aft, y right, z up); downwash and\n"
+         "sidewash in deg (positive: flow turned down, turned toward the right wing); q/q_inf = |V|^2 / V^2\n";
+  std::size_t width = 5;
+  for (const ProbeResult& pr : listed) width = std::max(width, pr.name.size());
+  for (const ProbeResult& pr : listed)
+    out << fmt::format("  {:<{}}  at ({:.4g}, {:.4g}, {:.4g}) m\n", pr.name, width, pr.point[0], pr.point[1],
+                       pr.point[2]);
+  out << fmt::format(" alpha   beta  {:<{}}       u/V       v/V       w/V  downwash  sidewash   q/q_inf\n", "probe",
+                     width);
+  std::vector<std::string> notes;
+  for (const PointResult& p : r.points) {
+    if (!p.solved()) continue;
+    for (const ProbeResult& pr : p.probes) {
+      out << Fixed(p.alpha_deg, 6, 2) << ' ' << Fixed(p.beta_deg, 6, 2) << "  " << fmt::format("{:<{}}", pr.name, width);
+      if (pr.velocity && pr.downwash_deg && pr.sidewash_deg && pr.q_ratio) {
+        out << ' ' << Fixed((*pr.velocity)[0], 9, 4) << ' ' << Fixed((*pr.velocity)[1], 9, 4) << ' '
+            << Fixed((*pr.velocity)[2], 9, 4) << ' ' << Fixed(*pr.downwash_deg, 9, 3) << ' '
+            << Fixed(*pr.sidewash_deg, 9, 3) << ' ' << Fixed(*pr.q_ratio, 9, 4) << '\n';
+      } else {
+        out << (pr.in_core ? "  in a vortex core: no values\n" : "  not computed\n");
+        if (std::find(notes.begin(), notes.end(), pr.note) == notes.end()) notes.push_back(pr.note);
+      }
+    }
+  }
+  for (const std::string& n : notes) out << "  (" << n << ")\n";
+}
+
 /// How the trim ended and what it found.
 void WriteTrim(const TrimResult& t, std::ostream& out) {
   out << fmt::format("\nTrim ({}): {} in {} Newton step{}\n", t.adjust, t.converged ? "converged" : "NOT converged",
@@ -171,6 +208,7 @@ void WriteSummary(const Results& r, std::ostream& out, const SummaryOptions& opt
       }
     }
   }
+  WriteProbes(r, out);
   if (!r.points.empty()) {
     bool header = false;
     const PointResult& p = r.FirstSolved();

@@ -319,6 +319,39 @@ TEST(SpeedPaths, VelocityMatchesReferenceOnTheGeneralPath) {
   ExpectVelocityMatches(one_sided, BoundMidpoints(one_sided), XAxisWake(), "one-sided wing");
 }
 
+TEST(SpeedPaths, VelocityAtTheAskedPointsOnly) {
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14), Fin(4, 6)}));
+  const Eigen::MatrixXd gamma = SomeCirculations(lat, 7);
+  const PointArray mid = BoundMidpoints(lat);
+  std::vector<bool> only(lat.panels(), false);
+  for (std::size_t i = 0; i < lat.panels(); i += 3) only[i] = true;  // every third point, some on each side
+  for (const WakeGeometry& wake : {XAxisWake(), XAxisWake(true), SideslipWake()}) {
+    const InducedVelocity some = InducedVelocityAt(lat, mid, gamma, wake, &only);
+    const InducedVelocity ref = ReferenceVelocity(lat, mid, gamma, wake);
+    const bool mirrored = InducedVelocityUsesMirror(lat, mid, wake);
+    for (std::size_t i = 0; i < lat.panels(); ++i) {
+      const auto ii = static_cast<Eigen::Index>(i);
+      const int g = lat.mirror_of[i];
+      // Asked for, or (on the mirror path) the mirror image of a point asked for: computed; otherwise zero.
+      bool computed = only[i];
+      if (mirrored) {
+        if (g >= 0) computed = computed || only[static_cast<std::size_t>(g)];
+        for (std::size_t k = 0; k < lat.panels(); ++k)
+          if (lat.mirror_of[k] == static_cast<int>(i) && only[k]) computed = true;
+      }
+      for (const auto& [f, r] : {std::pair{&some.u, &ref.u}, std::pair{&some.v, &ref.v}, std::pair{&some.w, &ref.w}})
+        for (Eigen::Index c = 0; c < gamma.cols(); ++c) {
+          if (!computed) {
+            EXPECT_EQ((*f)(ii, c), 0.0) << "row " << i << " was not asked for";
+            continue;
+          }
+          const double scale = r->col(c).cwiseAbs().maxCoeff();
+          EXPECT_LE(std::abs((*f)(ii, c) - (*r)(ii, c)), kRelative * scale) << "row " << i << ", column " << c;
+        }
+    }
+  }
+}
+
 TEST(SpeedPaths, VelocityOfNoColumnsOrNoPointsIsEmpty) {
   const Lattice lat = BuildLattice(CaseOf({Wing(3, 4)}));
   const InducedVelocity none = InducedVelocityAt(lat, BoundMidpoints(lat), Eigen::MatrixXd(static_cast<Eigen::Index>(lat.panels()), 0),

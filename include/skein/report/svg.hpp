@@ -5,6 +5,7 @@
 #include <string>
 #include <vector>
 
+#include "skein/report/plot.hpp"
 #include "skein/study.hpp"
 
 namespace skein::report {
@@ -19,5 +20,7 @@ struct SpanLoadingPlot {
 /// elliptic loading of the same lift drawn dashed; axes with ticks and units, a legend, and the cautions.
 /// Every series is a <polyline> with id "loading-<surface>" or "elliptic-<surface>" (names made XML-safe).
 void WriteSpanLoadingSvg(const SpanLoadingPlot& plot, std::ostream& out);
+/// The chart WriteSpanLoadingSvg draws (to embed it elsewhere, or change its ids).
+plot::Chart SpanLoadingChart(const SpanLoadingPlot& plot);
 
 }  // namespace skein::report
