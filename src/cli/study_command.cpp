@@ -32,7 +32,7 @@ struct StudyArgs {
   std::string case_path;
   std::vector<std::string> vary;
   std::optional<double> cl, alpha;
-  std::string json, csv_dir;
+  std::string json, csv_dir, svg;
   int threads = 0;
   bool quiet = false;
 };
@@ -103,6 +103,7 @@ int RunStudyCommand(const StudyArgs& a) {
     MakeOutputDirectory(a.csv_dir);
     out.Add(fs::path(a.csv_dir) / "study.csv", [&](std::ostream& f) { report::WriteStudyCsv(s, f); });
   }
+  if (!a.svg.empty()) out.Add(a.svg, [&](std::ostream& f) { report::WriteStudySvg(s, f); });
   out.Commit();
   if (a.json == "-") std::cout << json_text.str();
   if (!a.quiet) report::WriteStudyTable(s, a.json == "-" ? std::cerr : std::cout);
@@ -138,6 +139,10 @@ Command AddStudyCommand(CLI::App& app) {
       ->type_name("DEG");
   sub->add_option("--json", a->json, "write the study to FILE ('-' for standard output)")->type_name("FILE");
   sub->add_option("--csv", a->csv_dir, "write study.csv into DIR")->type_name("DIR");
+  sub->add_option("--svg", a->svg,
+                  "plot CD_induced and span efficiency against the first varied value (one line per value of the "
+                  "second) as SVG to FILE")
+      ->type_name("FILE");
   sub->add_option("--threads", a->threads,
                   "threads for the whole study (default: all cores); with more variants than threads each "
                   "variant runs on one thread, several at a time")

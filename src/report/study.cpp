@@ -1,6 +1,7 @@
 // Skein report: design-study tables and JSON. See report/study.hpp.
 #include "skein/report/study.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <ostream>
@@ -10,6 +11,7 @@
 #include <nlohmann/json.hpp>
 
 #include "skein/report/json.hpp"
+#include "skein/report/plot.hpp"
 
 namespace skein::report {
 namespace {
@@ -345,6 +347,63 @@ void WriteStudyCsv(const study::Study& s, std::ostream& out) {
         << CsvNum(OrNan(v.root_bending)) << ',' << CsvNum(OrNan(v.neutral_point_x)) << ','
         << CsvNum(OrNan(v.cl_peak_eta)) << ',' << CsvNum(v.cl_peak_over_CL) << '\n';
   }
+}
+
+std::vector<plot::Chart> StudyCharts(const study::Study& s) {
+  std::vector<plot::Chart> charts(2);
+  const std::string at = s.target_CL ? fmt::format("every variant at CL {:.4f}", *s.target_CL)
+                                     : fmt::format("every variant at alpha {:.2f} deg", s.alpha_deg.value_or(0.0));
+  const std::size_t n0 = s.axes.front().values.size();
+  const std::size_t lines = s.axes.size() == 2 ? s.axes[1].values.size() : 1;
+  for (std::size_t c = 0; c < 2; ++c) {
+    plot::Chart& ch = charts[c];
+    ch.id_prefix = c == 0 ? "cd-" : "e-";
+    ch.title = (c == 0 ? "Induced drag: " : "Span efficiency: ") + s.title;
+    ch.subtitle = lines == 1 ? at : fmt::format("{}; one line per value of {}", at, s.axes[1].path);
+    ch.x.title = s.axes.front().path;
+    ch.y.title = c == 0 ? "induced drag coefficient CD_induced (-)" : "span efficiency e (-)";
+    for (std::size_t k = 0; k < lines; ++k) {
+      plot::Series ser;
+      ser.id = lines == 1 ? std::string(c == 0 ? "CD_induced" : "span_efficiency") : fmt::format("line-{}", k + 1);
+      ser.label = lines == 1 ? std::string(c == 0 ? "CD_induced" : "e")
+                             : fmt::format("{} = {:g}", ColumnHead(s.axes[1].path, 24), s.axes[1].values[k]);
+      ser.markers = true;
+      ser.colour = plot::PaletteColour(k);
+      std::vector<std::pair<double, double>> pts;  // drawn in order of the varied value
+      for (std::size_t i = 0; i < n0; ++i) {
+        const study::StudyVariant& v = s.variants[i + n0 * k];
+        pts.emplace_back(v.values[0], c == 0 ? v.CD_induced : OrNan(v.span_efficiency));
+      }
+      std::stable_sort(pts.begin(), pts.end(), [](const auto& a, const auto& b) { return a.first < b.first; });
+      for (const auto& [x, y] : pts) {
+        ser.x.push_back(x);
+        ser.y.push_back(y);
+      }
+      ch.series.push_back(std::move(ser));
+    }
+  }
+  charts.back().footnotes = plot::CautionLines();
+  return charts;
+}
+
+void WriteStudySvg(const study::Study& s, std::ostream& out) {
+  // Two charts of the plot core stacked in one document: induced drag above, span efficiency below.
+  std::vector<plot::Chart> charts = StudyCharts(s);
+  double height = 0.0;
+  for (const plot::Chart& ch : charts) height += ch.height;
+  const double width = charts.front().width;
+  out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
+  out << fmt::format("<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{:g}\" height=\"{:g}\" viewBox=\"0 0 {:g} {:g}\">\n",
+                     width, height, width, height);
+  double y = 0.0;
+  for (plot::Chart& ch : charts) {
+    ch.xml_declaration = false;
+    out << fmt::format("<g transform=\"translate(0,{:g})\">\n", y);
+    plot::WriteChartSvg(ch, out);
+    out << "</g>\n";
+    y += ch.height;
+  }
+  out << "</svg>\n";
 }
 
 }  // namespace skein::report

@@ -2,6 +2,7 @@
 // a malformed --vary or a variant the reader refuses is one line on standard error, exit 2 and no output file;
 // the JSON document is the same byte for byte on 1 and 2 threads; study.csv has a header and a row per
 // variant; no progress bar when standard error is not a terminal.
+#include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <string>
@@ -117,6 +118,24 @@ TEST_F(StudyCommand, TheTableNamesTheLeastInducedDragAndCarriesTheCautions) {
   EXPECT_NE(o.out.find("Skein parameter study: Study command probe"), std::string::npos) << o.out;
   EXPECT_NE(o.out.find("Cautions: conceptual-design estimates"), std::string::npos);
   EXPECT_NE(o.out.find("Least induced drag"), std::string::npos);
+}
+
+TEST_F(StudyCommand, SvgDrawsInducedDragAndSpanEfficiencyOneLinePerValueOfTheSecondKey) {
+  const Outcome o = Skein("study wing.toml --vary surface.wing.trapezoid.taper=0.3:0.7:3 --vary "
+                          "surface.wing.incidence=0,2 --alpha 3 --quiet --svg study.svg");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  const std::string svg = ReadFile(dir_ / "study.svg");
+  EXPECT_EQ(svg.rfind("<?xml", 0), 0u);
+  for (const char* id : {"cd-line-1", "cd-line-2", "e-line-1", "e-line-2"})
+    EXPECT_NE(svg.find(std::string("<polyline id=\"") + id + "\""), std::string::npos) << id;
+  EXPECT_EQ(svg.find("line-3"), std::string::npos);
+  EXPECT_NE(svg.find("incidence = 2"), std::string::npos);
+  EXPECT_NE(svg.find("Conceptual-design estimates"), std::string::npos);
+  EXPECT_EQ(svg.find("nan"), std::string::npos);
+  // A bad path: no plot either.
+  const Outcome bad = Skein("study wing.toml --vary surface.wing.trapezoid.tapr=0.3,0.4 --cl 0.4 --svg bad.svg");
+  EXPECT_EQ(bad.exit_code, 2);
+  EXPECT_FALSE(std::filesystem::exists(dir_ / "bad.svg"));
 }
 
 }  // namespace

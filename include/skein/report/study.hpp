@@ -3,7 +3,9 @@
 #pragma once
 
 #include <iosfwd>
+#include <vector>
 
+#include "skein/report/plot.hpp"
 #include "skein/results.hpp"
 #include "skein/study.hpp"
 
@@ -44,6 +46,13 @@ void WriteStudyJson(const study::Study& s, std::ostream& out);
 /// The study as CSV (study.csv): a header row (the varied paths, then the names of study::StudyVariant) and
 /// one row per variant, in variant order; an empty field where a value cannot be computed.
 void WriteStudyCsv(const study::Study& s, std::ostream& out);
+
+/// The study's charts (plot.hpp): CD_induced and span efficiency against the first varied value, one line per
+/// value of the second when there are two (ids "CD_induced" / "span_efficiency", or "line-1", "line-2", ...;
+/// id prefixes "cd-" and "e-").
+std::vector<plot::Chart> StudyCharts(const study::Study& s);
+/// The two charts stacked in one SVG document (induced drag above, span efficiency below, the cautions under).
+void WriteStudySvg(const study::Study& s, std::ostream& out);
 
 /// The cautions every design-study report carries (conceptual-design estimates, linear inviscid theory).
 void WriteCautions(std::ostream& out);
