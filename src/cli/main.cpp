@@ -84,6 +84,7 @@ struct CompareArgs {
   double cl = 0.0;
   bool cl_given = false;
   std::string json, csv_dir;
+  int threads = 0;  ///< for all the cases together: see study::PlanThreads
 };
 
 int RunCompare(const CompareArgs& t) {
@@ -95,6 +96,7 @@ int RunCompare(const CompareArgs& t) {
   }
   skein::study::CompareOptions o;
   if (t.cl_given) o.target_CL = t.cl;
+  o.run.threads = t.threads;
   const skein::study::Comparison cmp = skein::study::CompareCases(cases, o);
   StagedOutputs out(inputs);
   std::ostringstream json_text;
@@ -266,6 +268,10 @@ int main(int argc, char** argv) {
   compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
       ->type_name("FILE");
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
+  compare->add_option("--threads", cmp.threads,
+                      "threads for all the cases (default: all cores); with more cases than threads each case runs on "
+                      "one thread, several at a time")
+      ->check(CLI::Range(1, 1024));
   const Command study = AddStudyCommand(app);
   try {
     app.parse(argc, argv);

@@ -245,7 +245,10 @@ std::optional<double> LeastDragAt(const study::Study& s) {
 
 /// The last key of a path, cut to a column's width: the table's column head.
 std::string ColumnHead(const std::string& path, std::size_t width) {
-  const std::size_t dot = path.rfind('.');
+  std::size_t dot = path.rfind('.');
+  // An array element's index alone says nothing: keep its key ("moment_point.1").
+  const bool index = dot != std::string::npos && path.find_first_not_of("0123456789", dot + 1) == std::string::npos;
+  if (index && dot > 0) dot = path.rfind('.', dot - 1);
   std::string head = dot == std::string::npos ? path : path.substr(dot + 1);
   if (head.size() > width) head = head.substr(0, width);
   return head;
