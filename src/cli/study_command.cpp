@@ -129,6 +129,7 @@ Command AddStudyCommand(CLI::App& app) {
                   "(twice: every pair, the first varying fastest)")
       ->type_name("PATH=VALUES")
       ->expected(1)
+      ->allow_extra_args(false)
       ->multi_option_policy(CLI::MultiOptionPolicy::TakeAll)
       ->required();
   sub->add_option_function<double>("--cl", [a](const double& v) { a->cl = v; },

@@ -138,4 +138,13 @@ TEST_F(StudyCommand, SvgDrawsInducedDragAndSpanEfficiencyOneLinePerValueOfTheSec
   EXPECT_FALSE(std::filesystem::exists(dir_ / "bad.svg"));
 }
 
+TEST_F(StudyCommand, VaryTakesOneValueEachTimeSoTheCaseMayFollowIt) {
+  const Outcome o = Skein("study --vary surface.wing.trapezoid.taper=0.4,0.5 wing.toml --vary surface.wing.incidence=1 "
+                          "--alpha 2 --quiet --json out.json");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  const auto doc = nlohmann::json::parse(ReadFile(dir_ / "out.json"));
+  EXPECT_EQ(doc["axes"].size(), 2u);
+  EXPECT_EQ(doc["variants"].size(), 2u);
+}
+
 }  // namespace
