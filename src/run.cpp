@@ -175,7 +175,17 @@ Results Run(const Case& c, const RunOptions& options) {
     }
     plan.memory_estimate_bytes = biggest_bytes;
     res.mesh.memory_estimate_bytes = biggest_bytes;
-    if (options.on_plan) options.on_plan(plan);
+    // Bad input says so in one line and nothing else: no plan when every wake geometry is refused (a control
+    // point on another surface's trailing leg), which the loop below would find only after it.
+    bool some_group_clear = false;
+    for (const auto& [key, members] : groups) try {
+      const WakeGeometry wake = WakeFor(c, points[members.front()].first, points[members.front()].second);
+      (void)CheckWakeClearance(c, lat, wake.direction, "");
+      some_group_clear = true;
+      break;
+    } catch (const InputError&) {
+    }
+    if (options.on_plan && some_group_clear) options.on_plan(plan);
   }
   // Called inside a handler: keeps the first error to rethrow when no point at all is solved.
   const auto mark_failed = [&](const std::vector<std::size_t>& members, const std::string& message) {
