@@ -24,6 +24,7 @@
 #include "skein/study.hpp"
 #include "outputs.hpp"
 #include "plots_report.hpp"
+#include "study_command.hpp"
 
 namespace fs = std::filesystem;
 
@@ -86,6 +87,7 @@ struct CompareArgs {
   bool cl_given = false;
   std::string json, csv_dir;
   std::string svg;  ///< --svg FILE: the cases' span loadings overlaid
+  int threads = 0;  ///< for all the cases together: see study::PlanThreads
 };
 
 int RunCompare(const CompareArgs& t) {
@@ -97,6 +99,7 @@ int RunCompare(const CompareArgs& t) {
   }
   skein::study::CompareOptions o;
   if (t.cl_given) o.target_CL = t.cl;
+  o.run.threads = t.threads;
   const skein::study::Comparison cmp = skein::study::CompareCases(cases, o);
   StagedOutputs out(inputs);
   std::ostringstream json_text;
@@ -274,6 +277,11 @@ int main(int argc, char** argv) {
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
   compare->add_option("--svg", cmp.svg, "write the cases' span loadings at the common CL, overlaid, as an SVG plot to FILE")
       ->type_name("FILE");
+  compare->add_option("--threads", cmp.threads,
+                      "threads for all the cases (default: all cores); with more cases than threads each case runs on "
+                      "one thread, several at a time")
+      ->check(CLI::Range(1, 1024));
+  const Command study = AddStudyCommand(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -285,6 +293,7 @@ int main(int argc, char** argv) {
     if (*solve || *trim) return RunSolve(a);
     if (*twist) return RunTwist(a.case_path, tw);
     if (*compare) return RunCompare(cmp);
+    if (*study.app) return study.run();
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;
