@@ -951,7 +951,7 @@ void Reader::ReadProbes(const toml::node& n, Case& c) const {
   for (std::size_t k = 0; k < a.size(); ++k) {
     const toml::table& t = *a[k].as_table();
     std::string ctx = fmt::format("probe {}", k + 1);
-    if (const toml::node* nn = t.get("name"); nn != nullptr && nn->is_string())
+    if (const toml::node* nn = t.get("name"); nn != nullptr && nn->is_string() && !nn->as_string()->get().empty())
       ctx = "probe " + Quote(nn->as_string()->get());
     CheckKeys(t, kProbeLevel, ctx);
     Probe p;

@@ -209,6 +209,7 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
   std::array<Wrench, kBasisSize> d_total{};
   std::vector<Wrench> d_control(nctl);
   std::vector<double> gamma(n), strip_gamma(lat.strips.size(), 0.0), strip_normal_force(lat.strips.size(), 0.0);
+  std::vector<double> delta_cp(n, 0.0);  // (F . n) / (q A), q = 1/2
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Eigen::Index>(i);
     const Vec3 a = lat.a[i], b = lat.b[i];
@@ -231,6 +232,7 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
     const auto strip = static_cast<std::size_t>(lat.strip[i]);
     strip_gamma[strip] += g;
     strip_normal_force[strip] += Dot(f, lat.strips[strip].normal);
+    delta_cp[i] = Dot(f, lat.normal[i]) / (0.5 * lat.area[i]);
     const Vec3 vxs = Cross(vel, seg);
     for (int k = 0; k < kBasisSize; ++k) {
       const auto ku = static_cast<std::size_t>(k);
@@ -353,6 +355,8 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
     sl.Cl = cs.Cl;
     sl.Cm = cs.Cm;
     sl.Cn = cs.Cn;
+    sl.panel_delta_cp.assign(delta_cp.begin() + static_cast<std::ptrdiff_t>(ls.first_panel),
+                             delta_cp.begin() + static_cast<std::ptrdiff_t>(ls.first_panel + ls.panels));
     for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m) {
       const Strip& st = lat.strips[m];
       sl.CD_induced += strip_drag[m] / qs;

@@ -2,14 +2,30 @@
 #include "skein/study.hpp"
 
 #include <algorithm>
+#include <atomic>
+#include <cerrno>
 #include <cmath>
+#include <cstdlib>
+#include <exception>
 #include <limits>
+#include <mutex>
+#include <thread>
+
+#include <omp.h>
 
 #include <Eigen/Dense>
 #include <fmt/format.h>
 
+#include "skein/case_edit.hpp"
+#include "skein/case_file.hpp"
 #include "skein/loads.hpp"
 #include "vec3.hpp"
+
+// OpenBLAS's thread count, where the library is linked (weak: absent with another BLAS, or none).
+extern "C" {
+void openblas_set_num_threads(int) __attribute__((weak));
+int openblas_get_num_threads(void) __attribute__((weak));
+}
 
 namespace skein::study {
 namespace {
@@ -480,13 +496,22 @@ PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run) 
   out.at = c;
   out.at.flight.alpha_deg = {c.flight.alpha_deg.front()};
   out.at.flight.beta_deg = {c.flight.beta_deg.front()};
+  // The first step uses the solved CL_alpha; later ones the secant through the last two points, since with
+  // a freestream wake the wake (and so CL) moves with alpha in a way the fixed-wake derivative does not see.
+  std::optional<std::pair<double, double>> previous;  // (alpha_deg, CL)
   for (int it = 0;; ++it) {
     out.point = Run(out.at, run).points.front();
     if (std::abs(out.point.CL - target_CL) <= 1e-12 * std::max(1.0, std::abs(target_CL))) break;
     if (it == 8)
       throw InputError(c.source_path, {}, fmt::format("CL {:g} was not reached (CL {:.9g} after {} steps)",
                                                       target_CL, out.point.CL, it));
-    const double cla = out.point.derivatives.Get("CL_alpha").value_or(0.0);
+    double cla = out.point.derivatives.Get("CL_alpha").value_or(0.0);
+    const double alpha_now = out.at.flight.alpha_deg.front();
+    if (previous && std::abs(alpha_now - previous->first) > 0.0) {
+      const double secant = (out.point.CL - previous->second) / ((alpha_now - previous->first) * kDegToRad);
+      if (std::abs(secant) > 1e-9) cla = secant;
+    }
+    previous = std::make_pair(alpha_now, out.point.CL);
     if (!(std::abs(cla) > 1e-9))
       throw InputError(c.source_path, {}, "CL does not change with alpha: the target CL cannot be reached");
     const double next = out.at.flight.alpha_deg.front() + (target_CL - out.point.CL) / cla / kDegToRad;
@@ -496,6 +521,100 @@ PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run) 
   }
   out.lattice = BuildLattice(out.at);
   return out;
+}
+
+namespace {
+
+/// Sets OpenBLAS's thread count for its lifetime and restores it after (a no-op without OpenBLAS).
+class BlasThreads {
+ public:
+  explicit BlasThreads(int n) {
+    if (openblas_set_num_threads != nullptr && openblas_get_num_threads != nullptr) {
+      previous_ = openblas_get_num_threads();
+      openblas_set_num_threads(n);
+    }
+  }
+  ~BlasThreads() {
+    if (previous_ > 0) openblas_set_num_threads(previous_);
+  }
+  BlasThreads(const BlasThreads&) = delete;
+  BlasThreads& operator=(const BlasThreads&) = delete;
+
+ private:
+  int previous_ = 0;
+};
+
+/// Calls solve(i, threads) for every i < n, the cases shared among threads as PlanThreads says. An exception
+/// is held in its case's place; the remaining cases after the first that failed are skipped, and the first
+/// failure in case order is rethrown (the same one whatever the threads).
+template <class Solve>
+ThreadPlan ForEachCase(std::size_t n, int total, Solve&& solve) {
+  const ThreadPlan plan = PlanThreads(n, total);
+  const BlasThreads blas(plan.threads_per_case);
+  std::vector<std::exception_ptr> errors(n);
+  std::atomic<std::size_t> next{0}, first_failed{n};
+  const auto worker = [&]() {
+    for (;;) {
+      const std::size_t i = next.fetch_add(1);
+      if (i >= n || i > first_failed.load()) return;
+      try {
+        solve(i, plan.threads_per_case);
+      } catch (...) {
+        errors[i] = std::current_exception();
+        std::size_t seen = first_failed.load();
+        while (i < seen && !first_failed.compare_exchange_weak(seen, i)) {
+        }
+      }
+    }
+  };
+  if (plan.concurrent_cases <= 1) {
+    worker();
+  } else {
+    std::vector<std::thread> pool;
+    for (int k = 0; k < plan.concurrent_cases; ++k) pool.emplace_back(worker);
+    for (std::thread& t : pool) t.join();
+  }
+  for (const std::exception_ptr& e : errors)
+    if (e) std::rethrow_exception(e);
+  return plan;
+}
+
+/// The figures of a point that compare and study report.
+CompareEntry Describe(const Case& c, const PointAtLift& p) {
+  CompareEntry e;
+  e.title = c.title;
+  e.source = c.source_path;
+  e.alpha_deg = p.point.alpha_deg;
+  e.CL = p.point.CL;
+  e.CD_induced = p.point.CD_induced;
+  e.span_efficiency = p.point.span_efficiency;
+  e.CL_alpha = p.point.derivatives.Get("CL_alpha").value_or(std::numeric_limits<double>::quiet_NaN());
+  e.root_bending = c.surfaces.front().symmetric ? RootBendingCoefficient(p.lattice, p.at, p.point, 0)
+                                                : std::numeric_limits<double>::quiet_NaN();
+  const StripLoads& sl = p.point.surfaces.front().strips;
+  const LatticeSurface& ls = p.lattice.surfaces.front();
+  double semi = 0.0;
+  for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
+    semi = std::max({semi, std::abs(p.lattice.strips[m].te_left[1]), std::abs(p.lattice.strips[m].te_right[1])});
+  std::size_t peak = 0;
+  for (std::size_t k = 1; k < sl.cl.size(); ++k)
+    if (sl.cl[k] > sl.cl[peak]) peak = k;
+  e.cl_peak_eta = semi > 0.0 ? std::abs(sl.y[peak]) / semi : std::numeric_limits<double>::quiet_NaN();
+  e.cl_peak_over_CL = sl.cl[peak] / p.point.CL;
+  if (p.point.neutral_point) e.neutral_point_x = (*p.point.neutral_point)[0];
+  e.span_loading = SpanLoadingWithElliptic(p.lattice, p.point, c.reference);
+  return e;
+}
+
+}  // namespace
+
+ThreadPlan PlanThreads(std::size_t cases, int total) {
+  ThreadPlan plan;
+  const int cores = total > 0 ? total : std::max(1, omp_get_num_procs());
+  plan.concurrent_cases = static_cast<int>(std::min<std::size_t>(std::max<std::size_t>(cases, 1),
+                                                                 static_cast<std::size_t>(cores)));
+  plan.threads_per_case = std::max(1, cores / plan.concurrent_cases);
+  return plan;
 }
 
 Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o) {
@@ -512,31 +631,13 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
   if (!std::isfinite(cmp.target_CL) || std::abs(cmp.target_CL) < 1e-6)
     throw InputError(cases.front().source_path, {},
                      fmt::format("the comparison needs a non-zero CL, got {:g}; give --cl", cmp.target_CL));
-  for (const Case& c : cases) {
-    const PointAtLift p = SolveAtLift(c, cmp.target_CL, o.run);
-    CompareEntry e;
-    e.title = c.title;
-    e.source = c.source_path;
-    e.alpha_deg = p.point.alpha_deg;
-    e.CL = p.point.CL;
-    e.CD_induced = p.point.CD_induced;
-    e.span_efficiency = p.point.span_efficiency;
-    e.CL_alpha = p.point.derivatives.Get("CL_alpha").value_or(std::numeric_limits<double>::quiet_NaN());
-    e.root_bending = c.surfaces.front().symmetric ? RootBendingCoefficient(p.lattice, p.at, p.point, 0)
-                                                  : std::numeric_limits<double>::quiet_NaN();
-    const StripLoads& sl = p.point.surfaces.front().strips;
-    const LatticeSurface& ls = p.lattice.surfaces.front();
-    double semi = 0.0;
-    for (std::size_t m = ls.first_strip; m < ls.first_strip + ls.strips; ++m)
-      semi = std::max({semi, std::abs(p.lattice.strips[m].te_left[1]), std::abs(p.lattice.strips[m].te_right[1])});
-    std::size_t peak = 0;
-    for (std::size_t k = 1; k < sl.cl.size(); ++k)
-      if (sl.cl[k] > sl.cl[peak]) peak = k;
-    e.cl_peak_eta = semi > 0.0 ? std::abs(sl.y[peak]) / semi : std::numeric_limits<double>::quiet_NaN();
-    e.cl_peak_over_CL = sl.cl[peak] / p.point.CL;
-    if (p.point.neutral_point) e.neutral_point_x = (*p.point.neutral_point)[0];
-    cmp.entries.push_back(e);
-  }
+  // The cases are independent: solved in parallel across cases (PlanThreads), each entry in its own place.
+  cmp.entries.resize(cases.size());
+  ForEachCase(cases.size(), o.run.threads, [&](std::size_t i, int threads) {
+    RunOptions run = o.run;
+    run.threads = threads;
+    cmp.entries[i] = Describe(cases[i], SolveAtLift(cases[i], cmp.target_CL, run));
+  });
   for (std::size_t i = 0; i < cmp.entries.size(); ++i) cmp.ranked.push_back(i);
   std::stable_sort(cmp.ranked.begin(), cmp.ranked.end(), [&](std::size_t a, std::size_t b) {
     return cmp.entries[a].CD_induced < cmp.entries[b].CD_induced;
@@ -581,6 +682,205 @@ std::vector<SpanLoadingSeries> SpanLoadingWithElliptic(const Lattice& lat, const
     out.push_back(std::move(ser));
   }
   return out;
+}
+
+// ---- parameter studies ------------------------------------------------------------------------------------
+
+namespace {
+
+/// Text made safe for a one-line message.
+std::string Printable(std::string_view s) {
+  std::string out;
+  for (char ch : s) out += (static_cast<unsigned char>(ch) < 0x20 || ch == 0x7f) ? '?' : ch;
+  return out.size() > 120 ? out.substr(0, 120) + "..." : out;
+}
+
+std::string Trim(std::string_view s) {
+  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
+  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
+  return std::string(s);
+}
+
+/// A whole finite number, or nullopt.
+std::optional<double> ParseNumber(const std::string& s) {
+  if (s.empty()) return std::nullopt;
+  char* end = nullptr;
+  errno = 0;
+  const double v = std::strtod(s.c_str(), &end);
+  if (end != s.c_str() + s.size() || errno == ERANGE || !std::isfinite(v)) return std::nullopt;
+  return v;
+}
+
+std::string VariantLabel(const std::vector<CaseKey>& keys, const std::vector<double>& values) {
+  std::string out = "variant ";
+  for (std::size_t a = 0; a < keys.size(); ++a)
+    out += fmt::format("{}{} = {}", a ? ", " : "", keys[a].path, FormatCaseNumber(values[a], keys[a].integer));
+  return out;
+}
+
+}  // namespace
+
+StudyAxis ParseStudyAxis(const std::string& spec) {
+  const auto fail = [&](const std::string& why) -> StudyAxis {
+    throw InputError(fmt::format("--vary \"{}\": {}", Printable(spec), why));
+  };
+  const std::size_t eq = spec.find('=');
+  if (eq == std::string::npos || Trim(std::string_view(spec).substr(0, eq)).empty())
+    return fail("expected PATH=FROM:TO:COUNT or PATH=V1,V2,... (e.g. surface.wing.trapezoid.taper=0.2:0.6:9)");
+  StudyAxis axis;
+  axis.path = Trim(std::string_view(spec).substr(0, eq));
+  const std::string rhs = spec.substr(eq + 1);
+  const auto number = [&](const std::string& text, const char* what) {
+    const std::optional<double> v = ParseNumber(Trim(text));
+    if (!v) fail(fmt::format("{} \"{}\" is not a finite number", what, Printable(Trim(text))));
+    return *v;
+  };
+  if (rhs.find(':') != std::string::npos) {
+    std::vector<std::string> parts;
+    for (std::size_t start = 0;;) {
+      const std::size_t c = rhs.find(':', start);
+      parts.push_back(rhs.substr(start, c == std::string::npos ? std::string::npos : c - start));
+      if (c == std::string::npos) break;
+      start = c + 1;
+    }
+    if (parts.size() != 3) return fail("expected FROM:TO:COUNT after '=' (e.g. 0.2:0.6:9)");
+    const double from = number(parts[0], "FROM"), to = number(parts[1], "TO");
+    const std::string count_text = Trim(parts[2]);
+    const bool digits = !count_text.empty() && count_text.size() < 10 &&
+                        std::all_of(count_text.begin(), count_text.end(), [](char ch) { return ch >= '0' && ch <= '9'; });
+    const std::size_t count = digits ? std::stoul(count_text) : 0;
+    if (count < 2 || count > kMaxStudyVariants)
+      return fail(fmt::format("COUNT must be a whole number from 2 to {}, got \"{}\"", kMaxStudyVariants,
+                              Printable(count_text)));
+    // Rounded to 12 significant digits, so that 0.2:0.6:17 gives 0.225 and not 0.22500000000000003 (the
+    // decimal the user meant, which is also what goes into the variant's text).
+    for (std::size_t i = 0; i < count; ++i) {
+      const double v = from + (to - from) * static_cast<double>(i) / static_cast<double>(count - 1);
+      axis.values.push_back(i + 1 == count ? to : std::strtod(fmt::format("{:.12g}", v).c_str(), nullptr));
+    }
+  } else {
+    for (std::size_t start = 0;;) {
+      const std::size_t c = rhs.find(',', start);
+      axis.values.push_back(number(rhs.substr(start, c == std::string::npos ? std::string::npos : c - start), "value"));
+      if (c == std::string::npos) break;
+      start = c + 1;
+    }
+    if (axis.values.size() > kMaxStudyVariants)
+      return fail(fmt::format("{} values, more than the limit of {}", axis.values.size(), kMaxStudyVariants));
+  }
+  return axis;
+}
+
+std::optional<double> ParabolicMinimum(const std::vector<double>& x, const std::vector<double>& y) {
+  if (x.size() != y.size() || x.size() < 3) return std::nullopt;
+  const bool increasing = x[1] > x[0];
+  for (std::size_t k = 1; k < x.size(); ++k)
+    if (increasing ? !(x[k] > x[k - 1]) : !(x[k] < x[k - 1])) return std::nullopt;
+  const std::size_t m = static_cast<std::size_t>(std::min_element(y.begin(), y.end()) - y.begin());
+  if (m == 0 || m + 1 == y.size()) return std::nullopt;
+  const double x1 = x[m - 1], x2 = x[m], x3 = x[m + 1], y1 = y[m - 1], y2 = y[m], y3 = y[m + 1];
+  const double den = 2.0 * ((x2 - x1) * (y2 - y3) - (x2 - x3) * (y2 - y1));
+  if (!(std::abs(den) > 0.0)) return std::nullopt;
+  return x2 - ((x2 - x1) * (x2 - x1) * (y2 - y3) - (x2 - x3) * (x2 - x3) * (y2 - y1)) / den;
+}
+
+Study RunStudy(std::string_view text, const std::string& file, const StudyOptions& o) {
+  if (o.axes.empty() || o.axes.size() > 2)
+    throw InputError(file, {}, fmt::format("a study varies one or two keys (--vary), got {}", o.axes.size()));
+  if (o.target_CL.has_value() == o.alpha_deg.has_value())
+    throw InputError(file, {}, "give either --cl (a fixed lift coefficient) or --alpha (a fixed angle), not both");
+  if (o.target_CL && !std::isfinite(*o.target_CL))
+    throw InputError(file, {}, fmt::format("--cl must be a finite number, got {}", *o.target_CL));
+  constexpr double kMaxAlphaDeg = 90.0;  // the reader's bound on angles (case_file.cpp)
+  if (o.alpha_deg && !(std::abs(*o.alpha_deg) <= kMaxAlphaDeg))
+    throw InputError(file, {}, fmt::format("--alpha must be within +-{:g} deg, got {}", kMaxAlphaDeg, *o.alpha_deg));
+
+  // The case as written first: an error of the file itself is not a variant's.
+  Case base = ReadCaseText(text, file);
+  Study st;
+  st.title = base.title;
+  st.source = file;
+  st.axes = o.axes;
+  st.target_CL = o.target_CL;
+  st.alpha_deg = o.alpha_deg;
+  st.warnings = base.warnings;
+
+  std::vector<CaseKey> keys;
+  std::size_t total = 1;
+  for (const StudyAxis& axis : o.axes) {
+    keys.push_back(FindCaseKey(text, file, axis.path));
+    if (axis.values.empty()) throw InputError(file, {}, fmt::format("--vary \"{}\": no values", axis.path));
+    total *= axis.values.size();
+  }
+  if (keys.size() == 2 && keys[0].begin == keys[1].begin)
+    throw InputError(file, keys[1].where, fmt::format("--vary \"{}\" is given twice", keys[1].path));
+  if (total > kMaxStudyVariants)
+    throw InputError(file, {}, fmt::format("the study would have {} variants, more than the limit of {}", total,
+                                           kMaxStudyVariants));
+
+  // Every variant read (and so validated) before any is solved.
+  std::vector<Case> cases(total);
+  st.variants.resize(total);
+  const std::size_t n0 = o.axes[0].values.size();
+  for (std::size_t i = 0; i < total; ++i) {
+    StudyVariant& v = st.variants[i];
+    v.values.push_back(o.axes[0].values[i % n0]);
+    if (o.axes.size() == 2) v.values.push_back(o.axes[1].values[i / n0]);
+    std::vector<std::pair<CaseKey, double>> edits;
+    for (std::size_t a = 0; a < keys.size(); ++a) edits.emplace_back(keys[a], v.values[a]);
+    const std::string label = VariantLabel(keys, v.values);
+    try {
+      cases[i] = ReadCaseText(EditCaseText(text, edits), file);
+    } catch (const InputError& e) {
+      throw InputError(e.file(), e.where(), label + ": " + e.message());
+    }
+    cases[i].source_path = file;
+    for (const std::string& w : cases[i].warnings)
+      if (std::find(base.warnings.begin(), base.warnings.end(), w) == base.warnings.end())
+        st.warnings.push_back(label + ": " + w);
+  }
+
+  std::mutex progress_mutex;
+  std::size_t done = 0;
+  st.threads = ForEachCase(total, o.run.threads, [&](std::size_t i, int threads) {
+    RunOptions run = o.run;
+    run.threads = threads;
+    const std::string label = VariantLabel(keys, st.variants[i].values);
+    try {
+      PointAtLift p;
+      if (o.target_CL) {
+        p = SolveAtLift(cases[i], *o.target_CL, run);
+      } else {
+        p.at = cases[i];
+        p.at.flight.alpha_deg = {*o.alpha_deg};
+        p.at.flight.beta_deg = {cases[i].flight.beta_deg.front()};
+        p.point = Run(p.at, run).points.front();
+        p.lattice = BuildLattice(p.at);
+      }
+      const CompareEntry e = Describe(p.at, p);
+      StudyVariant& v = st.variants[i];
+      v.alpha_deg = e.alpha_deg;
+      v.CL = e.CL;
+      v.CD_induced = e.CD_induced;
+      v.Cm = p.point.Cm;
+      v.span_efficiency = e.span_efficiency;
+      const auto finite = [](double x) { return std::isfinite(x) ? std::optional<double>(x) : std::nullopt; };
+      v.CL_alpha = finite(e.CL_alpha);
+      v.root_bending = finite(e.root_bending);
+      v.neutral_point_x = e.neutral_point_x;
+      v.cl_peak_eta = finite(e.cl_peak_eta);
+      v.cl_peak_over_CL = std::isfinite(e.cl_peak_over_CL) ? e.cl_peak_over_CL : 0.0;
+    } catch (const InputError& e) {
+      throw InputError(e.file(), e.where(), label + ": " + e.message());
+    } catch (const NumericalError& e) {
+      throw NumericalError(label + ": " + e.what());
+    }
+    if (o.progress) {
+      const std::lock_guard<std::mutex> lock(progress_mutex);
+      o.progress(++done, total);
+    }
+  });
+  return st;
 }
 
 }  // namespace skein::study

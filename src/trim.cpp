@@ -234,4 +234,12 @@ Results Trim(const Case& c, const RunOptions& run, const TrimOptions& options) {
   }
 }
 
+Case TrimmedCase(const Case& c, const TrimResult& trim) {
+  Case t = c;
+  FindSetting(t).In(t) = trim.value_deg;
+  t.flight.alpha_deg = {trim.alpha_deg};
+  t.flight.beta_deg = {c.flight.beta_deg.empty() ? 0.0 : c.flight.beta_deg.front()};
+  return t;
+}
+
 }  // namespace skein

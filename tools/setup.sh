@@ -4,6 +4,8 @@
 #   tools/setup.sh              install what is missing, configure Release in build/ and build everything
 #   tools/setup.sh skein_cli    the same, building only the named targets (the demo needs only the CLI)
 #   tools/setup.sh --packages   install what is missing and stop (tools/bench.sh builds elsewhere)
+#   tools/setup.sh --with-browser ...   also install chromium and fonts-dejavu-core, for the browser test of the
+#                                       HTML report (tests/output/browser_report_test.cpp, skipped without them)
 #
 # Packages are installed with apt-get only when dpkg-query finds one missing; as root directly, otherwise with
 # sudo when it is available. Environment: SKEIN_BUILD_DIR (default build), SKEIN_JOBS (default: all cores).
@@ -11,7 +13,17 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 
 packages=(build-essential cmake ninja-build pkg-config libeigen3-dev libtomlplusplus-dev libfmt-dev libcli11-dev
-          nlohmann-json3-dev libgtest-dev libbenchmark-dev libopenblas-dev liblapacke-dev)
+          nlohmann-json3-dev libgtest-dev libbenchmark-dev libopenblas-dev liblapacke-dev zlib1g-dev)
+
+args=()
+for a in "$@"; do
+  if [[ $a == --with-browser ]]; then
+    packages+=(chromium fonts-dejavu-core)
+  else
+    args+=("$a")
+  fi
+done
+set -- "${args[@]}"
 
 missing=()
 for p in "${packages[@]}"; do

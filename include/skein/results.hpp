@@ -52,6 +52,10 @@ struct SurfaceLoads {
   std::string name;
   double CL = 0.0, CD_induced = 0.0, CD_induced_nearfield = 0.0, CY = 0.0, Cl = 0.0, Cm = 0.0, Cn = 0.0;
   StripLoads strips;
+  /// Load coefficient of each panel, Delta Cp = (F . n) / (q A): the Kutta-Joukowski force along the panel
+  /// normal over dynamic pressure and panel area (positive pushes along n: lift on a wing). In lattice order,
+  /// panel Lattice::surfaces[s].first_panel + k at index k. For plots; not in the JSON document.
+  std::vector<double> panel_delta_cp;
   std::optional<StructuralLoads> structural;  ///< present when the case gives a speed
   std::optional<double> CD_profile;           ///< the surface's share of PointResult::profile->CD_profile
   std::optional<StripSectionLoads> sections;  ///< present with profile drag

@@ -6,6 +6,7 @@
 #include "skein/atmosphere.hpp"
 #include "skein/biot_savart.hpp"
 #include "skein/case.hpp"
+#include "skein/case_edit.hpp"
 #include "skein/case_file.hpp"
 #include "skein/error.hpp"
 #include "skein/influence.hpp"

@@ -16,6 +16,7 @@
 #include <functional>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <Eigen/Core>
@@ -203,8 +204,10 @@ PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run);
 
 struct CompareOptions {
   std::optional<double> target_CL;  ///< default: the first case's CL at its first flight point
-  RunOptions run;
+  RunOptions run;                   ///< run.threads: the threads of the whole comparison (PlanThreads)
 };
+
+struct SpanLoadingSeries;
 
 struct CompareEntry {
   std::string title, source;
@@ -217,6 +220,7 @@ struct CompareEntry {
   double cl_peak_over_CL = 0.0;     ///< that peak cl over the configuration CL
   std::optional<double> neutral_point_x;  ///< m
   int rank = 0;                     ///< 1 = least induced drag; equal drags share a rank
+  std::vector<SpanLoadingSeries> span_loading;  ///< at the target CL (SpanLoadingWithElliptic), for plots
 };
 
 struct Comparison {
@@ -225,8 +229,9 @@ struct Comparison {
   std::vector<std::size_t> ranked;    ///< indices into entries, least induced drag first (stable for ties)
 };
 
-/// Solves every case at the same CL and ranks them by induced drag. Throws InputError (naming the case)
-/// when a case cannot reach the target.
+/// Solves every case at the same CL and ranks them by induced drag, the cases in parallel (PlanThreads).
+/// Throws InputError (naming the case) when a case cannot reach the target: the first such case in the order
+/// given.
 Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& options);
 
 // ---------------------------------------------------------------------------------------------------------
@@ -250,5 +255,85 @@ struct SpanLoadingSeries {
 /// left out). `lat` must be the lattice the point was solved on.
 std::vector<SpanLoadingSeries> SpanLoadingWithElliptic(const Lattice& lat, const PointResult& p,
                                                        const Reference& ref);
+
+// ---------------------------------------------------------------------------------------------------------
+// Parallel work over several cases (compare, parameter studies)
+
+/// How the threads are shared among independent cases (variants of a study, cases of a comparison): with
+/// `total` threads (0 = every core of the machine) and `cases` cases, min(cases, total) cases run at once,
+/// each on total / that many threads (OpenMP and, where the build links OpenBLAS, the BLAS threads too). So
+/// with at least as many cases as cores every case runs single-threaded and the cores take a case each; with
+/// fewer cases the cores go to the cases. Results do not depend on it (each case is solved the same way on
+/// any number of threads).
+struct ThreadPlan {
+  int concurrent_cases = 1;
+  int threads_per_case = 1;
+};
+ThreadPlan PlanThreads(std::size_t cases, int total);
+
+// ---------------------------------------------------------------------------------------------------------
+// Parameter studies
+
+/// One varied key of a study: a dotted path into the case file (case_edit.hpp) and the values it takes.
+struct StudyAxis {
+  std::string path;
+  std::vector<double> values;
+};
+
+/// Most variants a study may have (the product of its axes' counts): a typo such as 0:1:10000 is refused.
+inline constexpr std::size_t kMaxStudyVariants = 2000;
+
+/// Parses `PATH=FROM:TO:COUNT` (COUNT >= 2 values equally spaced from FROM to TO, both included) or
+/// `PATH=V1,V2,...` (the values as given). Range values are rounded to 12 significant digits (0.2:0.6:17 gives
+/// 0.225, not 0.22500000000000003). Throws InputError naming the option text and what was expected.
+StudyAxis ParseStudyAxis(const std::string& spec);
+
+struct StudyOptions {
+  std::vector<StudyAxis> axes;       ///< one or two; two make a grid (the first varies fastest)
+  std::optional<double> target_CL;   ///< solve each variant at this CL ...
+  std::optional<double> alpha_deg;   ///< ... or at this angle of attack (exactly one of the two)
+  RunOptions run;                    ///< run.threads: the threads of the whole study (0 = every core), see PlanThreads
+  /// Called after each variant is solved with (variants done, variants in all), from the thread that solved
+  /// it, one call at a time. Optional.
+  std::function<void(std::size_t, std::size_t)> progress;
+};
+
+/// The results of one variant, at the first flight condition of the case (beta as written) with alpha set by
+/// the study.
+struct StudyVariant {
+  std::vector<double> values;         ///< one per axis
+  double alpha_deg = 0.0, CL = 0.0, CD_induced = 0.0, Cm = 0.0;
+  std::optional<double> span_efficiency;
+  std::optional<double> CL_alpha;     ///< per rad
+  std::optional<double> root_bending; ///< RootBendingCoefficient of the first surface (when it is symmetric)
+  std::optional<double> neutral_point_x;  ///< m
+  std::optional<double> cl_peak_eta;  ///< where the first surface's local cl peaks, |y| / semi-span
+  double cl_peak_over_CL = 0.0;       ///< that peak cl over the configuration CL
+};
+
+struct Study {
+  std::string title, source;
+  std::vector<StudyAxis> axes;
+  std::optional<double> target_CL, alpha_deg;
+  std::vector<StudyVariant> variants;  ///< first axis fastest: variant i has values[a] = axes[a].values[...]
+  ThreadPlan threads;                  ///< how the study was run
+  std::vector<std::string> warnings;   ///< the case's reader warnings
+};
+
+/// The abscissa of the least y, refined by the parabola through the least y and its two neighbours:
+/// x_v = x2 - ((x2-x1)^2 (y2-y3) - (x2-x3)^2 (y2-y1)) / (2 ((x2-x1)(y2-y3) - (x2-x3)(y2-y1))) (common practice).
+/// x must be strictly monotone; nullopt when the least y is at an end (the minimum may lie outside the range),
+/// there are fewer than three points, or the three are collinear.
+std::optional<double> ParabolicMinimum(const std::vector<double>& x, const std::vector<double>& y);
+
+/// Runs a parameter study of the case whose text is `text` (`file` names it in messages and resolves
+/// coordinate files beside it): every variant is the text with the varied numbers replaced in place
+/// (EditCaseText), read by the ordinary reader, then solved at options.target_CL (SolveAtLift) or at
+/// options.alpha_deg. Every variant is read before any is solved. Throws InputError for a bad path or option
+/// (one line naming it and the nearest valid key), for a variant the reader refuses (naming the variant:
+/// `file:line:column: variant surface.wing.trapezoid.taper = -0.1: ...`) or one that cannot reach the
+/// target CL; NumericalError (naming the variant) for a singular system. The error reported is the first
+/// variant's that fails, in variant order, whatever the threads.
+Study RunStudy(std::string_view text, const std::string& file, const StudyOptions& options);
 
 }  // namespace skein::study

@@ -59,4 +59,8 @@ struct TrimOptions {
 /// target cannot be reached, NumericalError when a solve fails.
 Results Trim(const Case& c, const RunOptions& run, const TrimOptions& options = {});
 
+/// The configuration a trim solved: the case with the trimmed setting (trim.value_deg) in the place its [trim]
+/// table names, and one flight point at the trimmed alpha and the case's first beta (to mesh it for a plot).
+Case TrimmedCase(const Case& c, const TrimResult& trim);
+
 }  // namespace skein

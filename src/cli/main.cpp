@@ -23,6 +23,8 @@
 #include "skein/report/svg.hpp"
 #include "skein/study.hpp"
 #include "outputs.hpp"
+#include "plots_report.hpp"
+#include "study_command.hpp"
 
 namespace fs = std::filesystem;
 
@@ -43,6 +45,7 @@ struct SolveArgs {
   bool refine = false;
   std::size_t refine_max_panels = 6000;
   std::string svg;
+  PlotsReportArgs plots;  ///< --plots DIR, --report FILE (plots_report.hpp)
   bool trim = false;  ///< `skein trim`: solve for the trimmed point of the case's [trim] table instead
   std::vector<std::string> probes;  ///< `--probe NAME=X,Y,Z`, added after the case's [[probe]] tables
 };
@@ -83,6 +86,8 @@ struct CompareArgs {
   double cl = 0.0;
   bool cl_given = false;
   std::string json, csv_dir;
+  std::string svg;  ///< --svg FILE: the cases' span loadings overlaid
+  int threads = 0;  ///< for all the cases together: see study::PlanThreads
 };
 
 int RunCompare(const CompareArgs& t) {
@@ -94,6 +99,7 @@ int RunCompare(const CompareArgs& t) {
   }
   skein::study::CompareOptions o;
   if (t.cl_given) o.target_CL = t.cl;
+  o.run.threads = t.threads;
   const skein::study::Comparison cmp = skein::study::CompareCases(cases, o);
   StagedOutputs out(inputs);
   std::ostringstream json_text;
@@ -105,6 +111,7 @@ int RunCompare(const CompareArgs& t) {
     MakeOutputDirectory(t.csv_dir);
     out.Add(fs::path(t.csv_dir) / "compare.csv", [&](std::ostream& f) { skein::report::WriteComparisonCsv(cmp, f); });
   }
+  StageComparisonSvg(out, t.svg, cmp);
   out.Commit();
   if (t.json == "-") std::cout << json_text.str();
   skein::report::WriteComparisonTable(cmp, t.json == "-" ? std::cerr : std::cout);
@@ -178,6 +185,7 @@ int RunSolve(const SolveArgs& a) {
     plot.series = skein::study::SpanLoadingWithElliptic(skein::BuildLattice(c), shown, r.reference);
     out.Add(a.svg, [&](std::ostream& f) { skein::report::WriteSpanLoadingSvg(plot, f); });
   }
+  StagePlotsAndReport(out, a.plots, a.case_path, c, r, convergence ? &*convergence : nullptr);
   out.Commit();
   r.times.output = std::chrono::duration<double>(Clock::now() - t_out).count();
   if (a.json == "-") std::cout << json_text.str();
@@ -241,6 +249,8 @@ int main(int argc, char** argv) {
       ->type_name("DIR");
   trim->add_option("--threads", a.threads, "OpenMP threads (default: all cores)")->check(CLI::Range(1, 1024));
   trim->add_flag("--quiet", a.quiet, "print no summary");
+  AddPlotsReportOptions(solve, a.plots);
+  AddPlotsReportOptions(trim, a.plots);
   TwistArgs tw;
   CLI::App* twist = app.add_subcommand(
       "twist", "Design the spanwise twist of a wing for least induced drag at a target CL.\n"
@@ -265,6 +275,13 @@ int main(int argc, char** argv) {
   compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
       ->type_name("FILE");
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");
+  compare->add_option("--svg", cmp.svg, "write the cases' span loadings at the common CL, overlaid, as an SVG plot to FILE")
+      ->type_name("FILE");
+  compare->add_option("--threads", cmp.threads,
+                      "threads for all the cases (default: all cores); with more cases than threads each case runs on "
+                      "one thread, several at a time")
+      ->check(CLI::Range(1, 1024));
+  const Command study = AddStudyCommand(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -276,6 +293,7 @@ int main(int argc, char** argv) {
     if (*solve || *trim) return RunSolve(a);
     if (*twist) return RunTwist(a.case_path, tw);
     if (*compare) return RunCompare(cmp);
+    if (*study.app) return study.run();
   } catch (const skein::InputError& e) {
     std::cerr << e.what() << '\n';
     return kExitInput;

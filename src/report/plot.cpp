@@ -140,11 +140,21 @@ std::vector<std::string> CautionLines() {
 void WriteChartSvg(const Chart& ch, std::ostream& out) {
   const std::string& P = ch.id_prefix;
   bool legend = false;
-  for (const Series& s : ch.series) legend = legend || !s.label.empty();
-  const double W = ch.width, H = ch.height;
-  const double left = 84, right = (legend || ch.colour_bar) ? 240 : 36, top = ch.subtitle.empty() ? 48 : 66;
+  std::size_t longest = ch.colour_bar ? ch.colour_bar->title.size() : 0;
+  for (const Series& s : ch.series) {
+    legend = legend || !s.label.empty();
+    longest = std::max(longest, s.label.size());
+  }
+  const double W = ch.width;
+  double H = ch.height;
+  // The legend column is as wide as its longest label (about 0.6 em a character), up to 40 % of the width.
+  const double right = (legend || ch.colour_bar)
+                           ? std::min(0.4 * W, std::max(150.0, 60.0 + 0.6 * kFont * static_cast<double>(longest)))
+                           : 36;
+  const double left = 84, top = ch.subtitle.empty() ? 48 : 66;
   const double bottom = 64 + 16.0 * static_cast<double>(ch.footnotes.size());
-  const double pw = W - left - right, ph = H - top - bottom;
+  const double pw = W - left - right;
+  double ph = H - top - bottom;
 
   Range rx, ry;
   for (const Series& s : ch.series)
@@ -166,6 +176,13 @@ void WriteChartSvg(const Chart& ch, std::ostream& out) {
     tx.hi = std::ceil(rx.empty() ? 1.0 : rx.hi / step) * step;
     ty.lo = std::floor(ry.empty() ? 0.0 : ry.lo / step) * step;
     ty.hi = std::ceil(ry.empty() ? 1.0 : ry.hi / step) * step;
+    // A shape wider than the plot area is tall: give back the height it does not need (not below 160 px).
+    const double needed = pw * (ty.hi - ty.lo) / (tx.hi - tx.lo);
+    if (needed < ph) {
+      const double shrink = ph - std::max(needed, std::min(ph, ch.colour_bar ? 260.0 : 160.0));
+      ph -= shrink;
+      H -= shrink;
+    }
     const double scale = std::min(pw / (tx.hi - tx.lo), ph / (ty.hi - ty.lo));
     const double wx = pw / scale - (tx.hi - tx.lo), wy = ph / scale - (ty.hi - ty.lo);
     tx.lo -= 0.5 * wx;
@@ -185,9 +202,9 @@ void WriteChartSvg(const Chart& ch, std::ostream& out) {
   };
 
   if (ch.xml_declaration) out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
-  out << fmt::format("<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{:g}\" height=\"{:g}\" viewBox=\"0 0 {:g} {:g}\" "
+  out << fmt::format("<svg{} width=\"{:g}\" height=\"{:g}\" viewBox=\"0 0 {:g} {:g}\" "
                      "font-family=\"DejaVu Sans, Arial, Helvetica, sans-serif\" font-size=\"{:g}\">\n",
-                     W, H, W, H, kFont);
+                     ch.xml_declaration ? " xmlns=\"http://www.w3.org/2000/svg\"" : "", W, H, W, H, kFont);
   out << fmt::format("<title>{}</title>\n", XmlEscape(ch.title));
   out << fmt::format("<rect x=\"0\" y=\"0\" width=\"{:g}\" height=\"{:g}\" fill=\"white\"/>\n", W, H);
   out << fmt::format("<text x=\"{:g}\" y=\"26\" font-size=\"{:g}\" font-weight=\"bold\">{}</text>\n", left, kTitleFont,

@@ -1,6 +1,7 @@
 // Skein report: design-study tables and JSON. See report/study.hpp.
 #include "skein/report/study.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <ostream>
@@ -10,6 +11,7 @@
 #include <nlohmann/json.hpp>
 
 #include "skein/report/json.hpp"
+#include "skein/report/plot.hpp"
 
 namespace skein::report {
 namespace {
@@ -228,6 +230,183 @@ void WriteTwistDesignJson(const study::TwistDesign& d, std::ostream& out) {
   warnings.insert(warnings.end(), problems.begin(), problems.end());
   doc["warnings"] = warnings;
   out << doc.dump(2) << '\n';
+}
+
+// ---- parameter studies ------------------------------------------------------------------------------------
+
+namespace {
+
+std::optional<double> LeastDragAt(const study::Study& s) {
+  if (s.axes.size() != 1) return std::nullopt;
+  std::vector<double> cd;
+  for (const study::StudyVariant& v : s.variants) cd.push_back(v.CD_induced);
+  return study::ParabolicMinimum(s.axes.front().values, cd);
+}
+
+/// The last key of a path, cut to a column's width: the table's column head.
+std::string ColumnHead(const std::string& path, std::size_t width) {
+  std::size_t dot = path.rfind('.');
+  // An array element's index alone says nothing: keep its key ("moment_point.1").
+  const bool index = dot != std::string::npos && path.find_first_not_of("0123456789", dot + 1) == std::string::npos;
+  if (index && dot > 0) dot = path.rfind('.', dot - 1);
+  std::string head = dot == std::string::npos ? path : path.substr(dot + 1);
+  if (head.size() > width) head = head.substr(0, width);
+  return head;
+}
+
+}  // namespace
+
+void WriteStudyTable(const study::Study& s, std::ostream& out) {
+  out << fmt::format("Skein parameter study: {}\n", s.title);
+  if (s.target_CL)
+    out << fmt::format("Every variant at CL {:.4f} (the angle of attack found for each)\n", *s.target_CL);
+  else
+    out << fmt::format("Every variant at alpha {:.2f} deg\n", s.alpha_deg.value_or(0.0));
+  for (std::size_t a = 0; a < s.axes.size(); ++a)
+    out << fmt::format("  varied: {} ({} values)\n", s.axes[a].path, s.axes[a].values.size());
+  out << fmt::format("  {} variants, {} at a time on {} thread{} each\n\n", s.variants.size(),
+                     s.threads.concurrent_cases, s.threads.threads_per_case, s.threads.threads_per_case == 1 ? "" : "s");
+  std::string head, units;
+  for (const study::StudyAxis& axis : s.axes) {
+    head += fmt::format("{:>12} ", ColumnHead(axis.path, 12));
+    units += fmt::format("{:>12} ", "");
+  }
+  out << head << " alpha       CL   CD_induced      e       Cm  CL_alpha  root bending   neutral pt  cl peak at   peak cl\n";
+  out << units << "   deg                                          /rad    /(q S b)         x m   y/semi-span  / CL\n";
+  for (const study::StudyVariant& v : s.variants) {
+    std::string row;
+    for (double x : v.values) row += fmt::format("{:>12g} ", x);
+    out << row
+        << fmt::format("{} {} {} {} {} {} {} {} {} {}\n", Cell(v.alpha_deg, 6, 2), Cell(v.CL, 8, 4),
+                       Cell(v.CD_induced, 12, 6), Cell(OrNan(v.span_efficiency), 6, 3), Cell(v.Cm, 8, 4),
+                       Cell(OrNan(v.CL_alpha), 9, 3), Cell(OrNan(v.root_bending), 13, 5),
+                       Cell(OrNan(v.neutral_point_x), 12, 4), Cell(OrNan(v.cl_peak_eta), 11, 3),
+                       Cell(v.cl_peak_over_CL, 9, 3));
+  }
+  if (const std::optional<double> at = LeastDragAt(s))
+    out << fmt::format("\nLeast induced drag at {} = {:.4g} (parabola through the three best variants)\n",
+                       s.axes.front().path, *at);
+  else if (s.axes.size() == 1)
+    out << "\nLeast induced drag: at an end of the range (or the values are not in order), so not located\n";
+  out << "  (root bending: the first surface's right half about the x axis through its root; cl peak: the first\n"
+         "   surface's largest local cl, an indication of where stall would begin, not a stall prediction)\n";
+  for (const std::string& w : s.warnings) out << "warning: " << w << '\n';
+  out << '\n';
+  WriteCautions(out);
+}
+
+void WriteStudyJson(const study::Study& s, std::ostream& out) {
+  std::vector<std::string> problems;
+  ordered_json axes = ordered_json::array();
+  for (const study::StudyAxis& a : s.axes) axes.push_back({{"path", a.path}, {"values", a.values}});
+  ordered_json variants = ordered_json::array();
+  for (std::size_t i = 0; i < s.variants.size(); ++i) {
+    const study::StudyVariant& v = s.variants[i];
+    const std::string at = fmt::format("variants[{}]", i);
+    const auto opt = [&](const std::optional<double>& x, const char* name) {
+      return x ? Num(*x, at + "." + name, problems) : ordered_json();
+    };
+    variants.push_back({{"values", v.values},
+                        {"alpha_deg", Num(v.alpha_deg, at + ".alpha_deg", problems)},
+                        {"CL", Num(v.CL, at + ".CL", problems)},
+                        {"CD_induced", Num(v.CD_induced, at + ".CD_induced", problems)},
+                        {"span_efficiency", opt(v.span_efficiency, "span_efficiency")},
+                        {"Cm", Num(v.Cm, at + ".Cm", problems)},
+                        {"CL_alpha", opt(v.CL_alpha, "CL_alpha")},
+                        {"root_bending", opt(v.root_bending, "root_bending")},
+                        {"neutral_point_x", opt(v.neutral_point_x, "neutral_point_x")},
+                        {"cl_peak_eta", opt(v.cl_peak_eta, "cl_peak_eta")},
+                        {"cl_peak_over_CL", Num(v.cl_peak_over_CL, at + ".cl_peak_over_CL", problems)}});
+  }
+  ordered_json doc;
+  doc["format"] = "skein-study";
+  doc["version"] = 1;
+  doc["title"] = s.title;
+  doc["source"] = s.source;
+  doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
+                    "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
+  if (s.target_CL)
+    doc["target"] = {{"CL", *s.target_CL}};
+  else
+    doc["target"] = {{"alpha_deg", s.alpha_deg.value_or(0.0)}};
+  doc["axes"] = axes;
+  doc["variants"] = variants;
+  const std::optional<double> least = LeastDragAt(s);
+  doc["least_induced_drag_at"] = least ? ordered_json(*least) : ordered_json();
+  std::vector<std::string> warnings = s.warnings;
+  warnings.insert(warnings.end(), problems.begin(), problems.end());
+  doc["warnings"] = warnings;
+  out << doc.dump(2) << '\n';
+}
+
+void WriteStudyCsv(const study::Study& s, std::ostream& out) {
+  for (const study::StudyAxis& a : s.axes) out << CsvField(a.path) << ',';
+  out << "alpha_deg,CL,CD_induced,span_efficiency,Cm,CL_alpha,root_bending,neutral_point_x,cl_peak_eta,"
+         "cl_peak_over_CL\n";
+  for (const study::StudyVariant& v : s.variants) {
+    for (double x : v.values) out << CsvNum(x) << ',';
+    out << CsvNum(v.alpha_deg) << ',' << CsvNum(v.CL) << ',' << CsvNum(v.CD_induced) << ','
+        << CsvNum(OrNan(v.span_efficiency)) << ',' << CsvNum(v.Cm) << ',' << CsvNum(OrNan(v.CL_alpha)) << ','
+        << CsvNum(OrNan(v.root_bending)) << ',' << CsvNum(OrNan(v.neutral_point_x)) << ','
+        << CsvNum(OrNan(v.cl_peak_eta)) << ',' << CsvNum(v.cl_peak_over_CL) << '\n';
+  }
+}
+
+std::vector<plot::Chart> StudyCharts(const study::Study& s) {
+  std::vector<plot::Chart> charts(2);
+  const std::string at = s.target_CL ? fmt::format("every variant at CL {:.4f}", *s.target_CL)
+                                     : fmt::format("every variant at alpha {:.2f} deg", s.alpha_deg.value_or(0.0));
+  const std::size_t n0 = s.axes.front().values.size();
+  const std::size_t lines = s.axes.size() == 2 ? s.axes[1].values.size() : 1;
+  for (std::size_t c = 0; c < 2; ++c) {
+    plot::Chart& ch = charts[c];
+    ch.id_prefix = c == 0 ? "cd-" : "e-";
+    ch.title = (c == 0 ? "Induced drag: " : "Span efficiency: ") + s.title;
+    ch.subtitle = lines == 1 ? at : fmt::format("{}; one line per value of {}", at, s.axes[1].path);
+    ch.x.title = s.axes.front().path;
+    ch.y.title = c == 0 ? "induced drag coefficient CD_induced (-)" : "span efficiency e (-)";
+    for (std::size_t k = 0; k < lines; ++k) {
+      plot::Series ser;
+      ser.id = lines == 1 ? std::string(c == 0 ? "CD_induced" : "span_efficiency") : fmt::format("line-{}", k + 1);
+      ser.label = lines == 1 ? std::string(c == 0 ? "CD_induced" : "e")
+                             : fmt::format("{} = {:g}", ColumnHead(s.axes[1].path, 24), s.axes[1].values[k]);
+      ser.markers = true;
+      ser.colour = plot::PaletteColour(k);
+      std::vector<std::pair<double, double>> pts;  // drawn in order of the varied value
+      for (std::size_t i = 0; i < n0; ++i) {
+        const study::StudyVariant& v = s.variants[i + n0 * k];
+        pts.emplace_back(v.values[0], c == 0 ? v.CD_induced : OrNan(v.span_efficiency));
+      }
+      std::stable_sort(pts.begin(), pts.end(), [](const auto& a, const auto& b) { return a.first < b.first; });
+      for (const auto& [x, y] : pts) {
+        ser.x.push_back(x);
+        ser.y.push_back(y);
+      }
+      ch.series.push_back(std::move(ser));
+    }
+  }
+  charts.back().footnotes = plot::CautionLines();
+  return charts;
+}
+
+void WriteStudySvg(const study::Study& s, std::ostream& out) {
+  // Two charts of the plot core stacked in one document: induced drag above, span efficiency below.
+  std::vector<plot::Chart> charts = StudyCharts(s);
+  double height = 0.0;
+  for (const plot::Chart& ch : charts) height += ch.height;
+  const double width = charts.front().width;
+  out << "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n";
+  out << fmt::format("<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{:g}\" height=\"{:g}\" viewBox=\"0 0 {:g} {:g}\">\n",
+                     width, height, width, height);
+  double y = 0.0;
+  for (plot::Chart& ch : charts) {
+    ch.xml_declaration = false;
+    out << fmt::format("<g transform=\"translate(0,{:g})\">\n", y);
+    plot::WriteChartSvg(ch, out);
+    out << "</g>\n";
+    y += ch.height;
+  }
+  out << "</svg>\n";
 }
 
 }  // namespace skein::report

@@ -3,7 +3,9 @@
 #include "skein/report/svg.hpp"
 
 #include <cctype>
+#include <algorithm>
 #include <cmath>
+#include <limits>
 #include <map>
 #include <sstream>
 #include <string>
@@ -12,95 +14,15 @@
 #include <gtest/gtest.h>
 
 #include "../support/planforms.hpp"
+#include "../support/xml_check.hpp"
 #include "skein/run.hpp"
 #include "skein/study.hpp"
 
 namespace skein {
 namespace {
 
-/// A small XML well-formedness check (XML 1.0, the subset an SVG writer uses): one root element, every start
-/// tag closed in order, attribute values quoted, no attribute twice, only the five predefined entities or
-/// numeric references, no '<' in text. Returns "" when well formed, else what is wrong. Elements met are
-/// reported through `visit` (name and attributes).
-struct Element {
-  std::string name;
-  std::map<std::string, std::string> attributes;
-  std::string text;  ///< character data directly inside (for <text>-like elements)
-};
-
-std::string CheckXml(const std::string& doc, std::vector<Element>& elements) {
-  std::vector<std::size_t> open;  // indices into elements
-  std::size_t i = 0, roots = 0;
-  auto is_name = [](char c) { return std::isalnum(static_cast<unsigned char>(c)) || c == '-' || c == '_' || c == ':' || c == '.'; };
-  auto check_entities = [](const std::string& s) -> bool {
-    for (std::size_t k = 0; k < s.size(); ++k) {
-      if (s[k] == '<') return false;
-      if (s[k] != '&') continue;
-      const std::size_t e = s.find(';', k);
-      if (e == std::string::npos) return false;
-      const std::string ent = s.substr(k + 1, e - k - 1);
-      if (!(ent == "amp" || ent == "lt" || ent == "gt" || ent == "quot" || ent == "apos" ||
-            (ent.size() > 1 && ent[0] == '#')))
-        return false;
-    }
-    return true;
-  };
-  if (doc.compare(0, 5, "<?xml") == 0) {
-    i = doc.find("?>");
-    if (i == std::string::npos) return "unterminated XML declaration";
-    i += 2;
-  }
-  while (i < doc.size()) {
-    const std::size_t lt = doc.find('<', i);
-    const std::string text = doc.substr(i, (lt == std::string::npos ? doc.size() : lt) - i);
-    if (!check_entities(text)) return "bad character data: " + text.substr(0, 40);
-    if (open.empty() && text.find_first_not_of(" \t\r\n") != std::string::npos) return "text outside the root";
-    if (!open.empty()) elements[open.back()].text += text;
-    if (lt == std::string::npos) break;
-    const std::size_t gt = doc.find('>', lt);
-    if (gt == std::string::npos) return "unterminated tag";
-    std::string tag = doc.substr(lt + 1, gt - lt - 1);
-    i = gt + 1;
-    if (!tag.empty() && tag[0] == '/') {
-      const std::string name = tag.substr(1);
-      if (open.empty() || elements[open.back()].name != name) return "mismatched end tag </" + name + ">";
-      open.pop_back();
-      continue;
-    }
-    const bool empty = !tag.empty() && tag.back() == '/';
-    if (empty) tag.pop_back();
-    std::size_t k = 0;
-    while (k < tag.size() && is_name(tag[k])) ++k;
-    Element el;
-    el.name = tag.substr(0, k);
-    if (el.name.empty()) return "tag without a name";
-    while (k < tag.size()) {
-      while (k < tag.size() && std::isspace(static_cast<unsigned char>(tag[k]))) ++k;
-      if (k >= tag.size()) break;
-      const std::size_t n0 = k;
-      while (k < tag.size() && is_name(tag[k])) ++k;
-      const std::string attr = tag.substr(n0, k - n0);
-      if (attr.empty() || k >= tag.size() || tag[k] != '=') return "bad attribute in <" + el.name + ">";
-      ++k;
-      if (k >= tag.size() || (tag[k] != '"' && tag[k] != '\'')) return "unquoted attribute " + attr;
-      const char q = tag[k++];
-      const std::size_t end = tag.find(q, k);
-      if (end == std::string::npos) return "unterminated attribute " + attr;
-      const std::string value = tag.substr(k, end - k);
-      if (!check_entities(value)) return "bad attribute value " + attr;
-      if (el.attributes.count(attr)) return "attribute twice: " + attr;
-      el.attributes[attr] = value;
-      k = end + 1;
-    }
-    if (open.empty()) ++roots;
-    if (roots > 1) return "more than one root element";
-    elements.push_back(el);
-    if (!empty) open.push_back(elements.size() - 1);
-  }
-  if (!open.empty()) return "unclosed element <" + elements[open.back()].name + ">";
-  if (roots != 1) return "no root element";
-  return "";
-}
+using testing::CheckXml;
+using testing::Element;
 
 TEST(XmlCheck, RejectsWhatIsNotWellFormed) {
   std::vector<Element> e;
@@ -192,6 +114,155 @@ TEST(SpanLoadingSvg, EllipticReferenceCarriesTheSurfaceLift) {
   EXPECT_NEAR(loading, lift_area, 1e-2 * lift_area);
   EXPECT_NEAR(s.span, 8.0, 1e-12);
   EXPECT_NEAR(s.centre, 0.0, 1e-12);
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// The design-review set (ResultPlots) and the comparison overlay
+
+constexpr double kPi = 3.14159265358979323846;
+
+struct Swept {
+  Case c;
+  Lattice lat;
+  Results r;
+};
+
+/// A tapered wing (our own invention) over alpha 2, 5, 8 deg with a lost point inserted between 5 and 8 deg: its
+/// values are NaN, as a point that was never solved would have them if anything read them.
+Swept SweepWithALostPoint() {
+  Swept s;
+  s.c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 10.0, testing::Mesh(4, 12)), {2.0, 5.0, 8.0});
+  s.lat = BuildLattice(s.c);
+  s.r = skein::Run(s.c, {});
+  PointResult lost;
+  lost.alpha_deg = 6.5;
+  lost.error = "test: this point was not solved";
+  lost.CL = lost.CD_induced = lost.Cm = std::numeric_limits<double>::quiet_NaN();
+  s.r.points.insert(s.r.points.begin() + 2, lost);
+  return s;
+}
+
+const report::plot::Series* FindSeries(const report::plot::Chart& ch, const std::string& id) {
+  for (const auto& s : ch.series)
+    if (s.id == id) return &s;
+  return nullptr;
+}
+
+std::string Draw(const report::plot::Chart& ch) {
+  std::ostringstream out;
+  report::plot::WriteChartSvg(ch, out);
+  return out.str();
+}
+
+TEST(ResultPlots, MakesTheFixedSetWithSolvedPointsOnly) {
+  const Swept s = SweepWithALostPoint();
+  const std::vector<report::NamedChart> plots = report::ResultPlots(s.r, s.lat);
+  std::vector<std::string> files;
+  for (const auto& p : plots) files.push_back(p.file);
+  EXPECT_EQ(files, (std::vector<std::string>{"span_loading.svg", "local_cl.svg", "planform_load.svg",
+                                             "lift_curve.svg", "drag_polar.svg"}));
+  for (const auto& p : plots) {
+    const std::string svg = Draw(p.chart);
+    std::vector<Element> el;
+    EXPECT_EQ(CheckXml(svg, el), "") << p.file;
+    EXPECT_EQ(svg.find("nan"), std::string::npos) << p.file;
+    EXPECT_NE(svg.find("linear, inviscid theory"), std::string::npos) << p.file;  // the cautions
+    const auto id = testing::ById(el);
+    EXPECT_TRUE(id.count("x-label") && id.count("y-label")) << p.file;
+    EXPECT_NE(id.at("x-label")->text.find("("), std::string::npos) << p.file << ": the x axis has no unit";
+    EXPECT_NE(id.at("y-label")->text.find("("), std::string::npos) << p.file << ": the y axis has no unit";
+  }
+  // Lift curve: the three solved points, in sweep order, values as computed.
+  const auto* lift = FindSeries(plots[3].chart, "lift-curve-0");
+  ASSERT_NE(lift, nullptr);
+  EXPECT_EQ(lift->x, (std::vector<double>{2.0, 5.0, 8.0}));
+  EXPECT_EQ(lift->y, (std::vector<double>{s.r.points[0].CL, s.r.points[1].CL, s.r.points[3].CL}));
+  std::vector<Element> el;
+  ASSERT_EQ(CheckXml(Draw(plots[3].chart), el), "");
+  EXPECT_EQ(testing::CountPointPairs(testing::ById(el).at("lift-curve-0")->attributes.at("points")), 3);
+  // Drag polar: the elliptic-loading reference is CD_induced = CL^2 / (pi A), A = b^2 / S (L. Prandtl,
+  // "Tragflügeltheorie. I. Mitteilung", 1918).
+  const auto* polar = FindSeries(plots[4].chart, "polar-0");
+  ASSERT_NE(polar, nullptr);
+  EXPECT_EQ(polar->y.size(), 3u);
+  const auto* ell = FindSeries(plots[4].chart, "elliptic-polar");
+  ASSERT_NE(ell, nullptr);
+  ASSERT_EQ(ell->x.size(), 101u);
+  const double A = s.c.reference.span * s.c.reference.span / s.c.reference.area;
+  for (std::size_t k = 0; k < ell->x.size(); ++k)
+    EXPECT_NEAR(ell->y[k], ell->x[k] * ell->x[k] / (kPi * A), 1e-15);
+  EXPECT_DOUBLE_EQ(ell->x.front(), s.r.points[0].CL);
+  EXPECT_DOUBLE_EQ(ell->x.back(), s.r.points[3].CL);
+  for (std::size_t k = 0; k < polar->x.size(); ++k) EXPECT_EQ(polar->y[k], s.r.points[k < 2 ? k : k + 1].CD_induced);
+  EXPECT_NE(plots[3].chart.subtitle.find("1 not solved"), std::string::npos);
+}
+
+TEST(ResultPlots, LocalClAndPlanformShowTheFirstSolvedPoint) {
+  const Swept s = SweepWithALostPoint();
+  const std::vector<report::NamedChart> plots = report::ResultPlots(s.r, s.lat);
+  const PointResult& p = s.r.points[0];
+  const auto* cl = FindSeries(plots[1].chart, "cl-wing");
+  ASSERT_NE(cl, nullptr);
+  EXPECT_EQ(cl->x, p.surfaces[0].strips.y);
+  EXPECT_EQ(cl->y, p.surfaces[0].strips.cl);
+  const auto* ref = FindSeries(plots[1].chart, "configuration-CL");
+  ASSERT_NE(ref, nullptr);
+  EXPECT_EQ(ref->y, (std::vector<double>{p.CL, p.CL}));
+
+  const report::plot::Chart& top = plots[2].chart;
+  ASSERT_EQ(top.shapes.size(), s.lat.panels());
+  ASSERT_TRUE(top.colour_bar.has_value());
+  double limit = 0.0;
+  for (double v : p.surfaces[0].panel_delta_cp) limit = std::max(limit, std::abs(v));
+  ASSERT_GT(limit, 0.0);  // a loaded wing: the scale runs to its largest |Delta Cp|
+  EXPECT_DOUBLE_EQ(top.colour_bar->limit, limit);
+  for (std::size_t k = 0; k < top.shapes.size(); ++k) {
+    EXPECT_EQ(top.shapes[k].id, "panel-wing-" + std::to_string(k));
+    EXPECT_EQ(top.shapes[k].fill, report::plot::DivergingColour(p.surfaces[0].panel_delta_cp[k], limit));
+    EXPECT_DOUBLE_EQ(top.shapes[k].x[0], s.lat.corner_le_a.y[k]);  // top view: y across, x down
+    EXPECT_DOUBLE_EQ(top.shapes[k].y[0], s.lat.corner_le_a.x[k]);
+  }
+  std::vector<Element> el;
+  ASSERT_EQ(CheckXml(Draw(top), el), "");
+  std::size_t polygons = 0;
+  for (const Element& e : el) polygons += e.name == "polygon" ? 1u : 0u;
+  EXPECT_EQ(polygons, s.lat.panels());
+  EXPECT_TRUE(testing::ById(el).count("colour-bar"));
+}
+
+TEST(ResultPlots, OnePointGivesNoSweepPlots) {
+  const Case c = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 10.0, testing::Mesh(4, 12)), {4.0});
+  const std::vector<report::NamedChart> plots = report::ResultPlots(skein::Run(c, {}), BuildLattice(c));
+  ASSERT_EQ(plots.size(), 3u);
+  EXPECT_EQ(plots.back().file, "planform_load.svg");
+}
+
+TEST(ComparisonChart, OverlaysEveryCaseSpanLoading) {
+  const Case a = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 10.0, testing::Mesh(4, 12)), {4.0});
+  const Case b = testing::WingCase(testing::RectangularWing(8.0, 0.9, testing::Mesh(4, 10)), {4.0});
+  study::CompareOptions o;
+  o.target_CL = 0.4;
+  const study::Comparison cmp = study::CompareCases({a, b}, o);
+  ASSERT_EQ(cmp.entries.size(), 2u);
+  std::vector<Element> el;
+  const std::string svg = Draw(report::ComparisonSpanLoadingChart(cmp));
+  ASSERT_EQ(CheckXml(svg, el), "");
+  const auto id = testing::ById(el);
+  ASSERT_TRUE(id.count("loading-1-wing"));
+  ASSERT_TRUE(id.count("loading-2-wing"));
+  EXPECT_EQ(testing::CountPointPairs(id.at("loading-1-wing")->attributes.at("points")),
+            static_cast<long>(cmp.entries[0].span_loading[0].y.size()));
+  EXPECT_EQ(testing::CountPointPairs(id.at("loading-2-wing")->attributes.at("points")), 20);  // 10 strips a half
+  // Each overlaid loading carries the common lift: its area is S_ref CL / c_ref (definition of cl c / c_ref).
+  for (const auto& e : cmp.entries) {
+    const auto& sl = e.span_loading[0];
+    double area = 0.0;
+    for (std::size_t k = 0; k < sl.y.size(); ++k) area += sl.loading[k] * sl.width[k];
+    const Case& c = &e == &cmp.entries[0] ? a : b;
+    const double lift_area = c.reference.area * 0.4 / c.reference.chord;
+    EXPECT_NEAR(area, lift_area, 1e-2 * lift_area);  // strip normal force vs lift: cos(alpha), as above
+  }
+  EXPECT_NE(svg.find("at CL 0.4000"), std::string::npos);
 }
 
 }  // namespace

@@ -4,7 +4,7 @@
 // Source: Stokes' theorem (G. G. Stokes, Smith's Prize examination, Cambridge, 1854; the line integral of a
 // vector field around a closed curve equals the flux of its curl through any surface the curve bounds) and
 // Kelvin's circulation theorem (W. Thomson, "On vortex motion", Transactions of the Royal Society of Edinburgh
-// 25, 1869): outside the vortex lines the flow of a lattice is irrotational, so the circulation around a loop is
+// 25, 1869; both publication details from memory): outside the vortex lines the flow of a lattice is irrotational, so the circulation around a loop is
 // the sum of the circulations of the lines that pierce a surface spanning it.
 //
 // The loop is an ellipse in the plane y = y_m through the middle of one strip (its quarter-chord midpoint),

@@ -73,7 +73,9 @@ struct Chart {
   std::vector<std::string> footnotes;  ///< lines under the plot, e.g. CautionLines()
   double width = 860, height = 540;    ///< px (the viewBox); fonts are sized to stay legible printed at A4 width
   std::string id_prefix;               ///< put before every id in the chart
-  bool xml_declaration = true;         ///< false for an SVG embedded in HTML
+  /// false for an SVG embedded in HTML: no XML declaration and no xmlns attribute (an HTML parser puts <svg>
+  /// in the SVG namespace itself, and the page then names no URL at all).
+  bool xml_declaration = true;
 };
 
 /// Writes the chart as SVG. Library code: never prints elsewhere.

@@ -3,7 +3,9 @@
 #pragma once
 
 #include <iosfwd>
+#include <vector>
 
+#include "skein/report/plot.hpp"
 #include "skein/results.hpp"
 #include "skein/study.hpp"
 
@@ -31,6 +33,26 @@ void WriteComparisonTable(const study::Comparison& c, std::ostream& out);
 void WriteComparisonJson(const study::Comparison& c, std::ostream& out);
 /// The comparison as CSV (compare.csv): a header row and one row per case in ranked order.
 void WriteComparisonCsv(const study::Comparison& c, std::ostream& out);
+
+/// The parameter study: the varied keys, one row per variant (first key fastest) with alpha, CL, CD_induced,
+/// span efficiency, Cm, CL_alpha, root bending, neutral point and where the local cl peaks; for one varied
+/// key, where the least induced drag lies (ParabolicMinimum); and the cautions.
+void WriteStudyTable(const study::Study& s, std::ostream& out);
+/// The study as JSON: {"format": "skein-study", "version": 1, "title", "source", "target": {"CL"} or
+/// {"alpha_deg"}, "axes": [{"path", "values"}], "variants": [{"values", "alpha_deg", "CL", ...}],
+/// "least_induced_drag_at" (or null), "warnings"}; the names of study::StudyVariant. No thread counts, so the
+/// document is the same on any number of threads.
+void WriteStudyJson(const study::Study& s, std::ostream& out);
+/// The study as CSV (study.csv): a header row (the varied paths, then the names of study::StudyVariant) and
+/// one row per variant, in variant order; an empty field where a value cannot be computed.
+void WriteStudyCsv(const study::Study& s, std::ostream& out);
+
+/// The study's charts (plot.hpp): CD_induced and span efficiency against the first varied value, one line per
+/// value of the second when there are two (ids "CD_induced" / "span_efficiency", or "line-1", "line-2", ...;
+/// id prefixes "cd-" and "e-").
+std::vector<plot::Chart> StudyCharts(const study::Study& s);
+/// The two charts stacked in one SVG document (induced drag above, span efficiency below, the cautions under).
+void WriteStudySvg(const study::Study& s, std::ostream& out);
 
 /// The cautions every design-study report carries (conceptual-design estimates, linear inviscid theory).
 void WriteCautions(std::ostream& out);
