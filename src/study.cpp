@@ -620,7 +620,18 @@ ThreadPlan PlanThreads(std::size_t cases, int total) {
 Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o) {
   if (cases.empty()) throw InputError("compare needs at least one case");
   Comparison cmp;
-  if (o.target_CL) {
+  cmp.same_aircraft = o.same_aircraft;
+  std::vector<double> lift_of(cases.size());  // the CL each case flies at
+  if (o.same_aircraft) {
+    const SameAircraft& a = *o.same_aircraft;
+    if (!(a.weight_N > 0.0 && a.speed > 0.0 && a.density > 0.0 && std::isfinite(a.weight_N) &&
+          std::isfinite(a.speed) && std::isfinite(a.density)))
+      throw InputError(fmt::format("compare: weight, speed and density must be positive and finite, got {:g} N, "
+                                   "{:g} m/s, {:g} kg/m^3", a.weight_N, a.speed, a.density));
+    const double q = 0.5 * a.density * a.speed * a.speed;
+    for (std::size_t i = 0; i < cases.size(); ++i) lift_of[i] = a.weight_N / (q * cases[i].reference.area);
+    cmp.target_CL = lift_of.front();
+  } else if (o.target_CL) {
     cmp.target_CL = *o.target_CL;
   } else {
     Case first = cases.front();
@@ -628,25 +639,33 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
     first.flight.beta_deg = {first.flight.beta_deg.front()};
     cmp.target_CL = Run(first, o.run).points.front().CL;
   }
-  if (!std::isfinite(cmp.target_CL) || std::abs(cmp.target_CL) < 1e-6)
-    throw InputError(cases.front().source_path, {},
-                     fmt::format("the comparison needs a non-zero CL, got {:g}; give --cl", cmp.target_CL));
+  if (!o.same_aircraft) std::fill(lift_of.begin(), lift_of.end(), cmp.target_CL);
+  for (std::size_t i = 0; i < cases.size(); ++i)
+    if (!std::isfinite(lift_of[i]) || std::abs(lift_of[i]) < 1e-6)
+      throw InputError(cases[i].source_path, {},
+                       fmt::format("the comparison needs a non-zero CL, got {:g}; give --cl", lift_of[i]));
   // The cases are independent: solved in parallel across cases (PlanThreads), each entry in its own place.
   cmp.entries.resize(cases.size());
   ForEachCase(cases.size(), o.run.threads, [&](std::size_t i, int threads) {
     RunOptions run = o.run;
     run.threads = threads;
-    cmp.entries[i] = Describe(cases[i], SolveAtLift(cases[i], cmp.target_CL, run));
+    cmp.entries[i] = Describe(cases[i], SolveAtLift(cases[i], lift_of[i], run));
+    if (o.same_aircraft) {
+      const SameAircraft& a = *o.same_aircraft;
+      cmp.entries[i].induced_drag_N =
+          0.5 * a.density * a.speed * a.speed * cases[i].reference.area * cmp.entries[i].CD_induced;
+    }
   });
   for (std::size_t i = 0; i < cmp.entries.size(); ++i) cmp.ranked.push_back(i);
+  // The ranking key: the induced drag coefficient at a common CL, the induced drag force for one aircraft.
+  auto key = [&](const CompareEntry& e) { return e.induced_drag_N ? *e.induced_drag_N : e.CD_induced; };
   std::stable_sort(cmp.ranked.begin(), cmp.ranked.end(), [&](std::size_t a, std::size_t b) {
-    return cmp.entries[a].CD_induced < cmp.entries[b].CD_induced;
+    return key(cmp.entries[a]) < key(cmp.entries[b]);
   });
   for (std::size_t k = 0; k < cmp.ranked.size(); ++k) {
     CompareEntry& e = cmp.entries[cmp.ranked[k]];
     const CompareEntry* prev = k > 0 ? &cmp.entries[cmp.ranked[k - 1]] : nullptr;
-    const bool tie = prev && std::abs(e.CD_induced - prev->CD_induced) <=
-                                 1e-12 * std::max(std::abs(e.CD_induced), std::abs(prev->CD_induced));
+    const bool tie = prev && std::abs(key(e) - key(*prev)) <= 1e-12 * std::max(std::abs(key(e)), std::abs(key(*prev)));
     e.rank = tie ? prev->rank : static_cast<int>(k) + 1;
   }
   return cmp;

@@ -202,8 +202,18 @@ struct PointAtLift {
 };
 PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run);
 
+/// Every case carrying the same aircraft: the same weight at the same speed and air density. Each case then
+/// flies at its own CL = W / (q S_ref) and is ranked by its induced drag force D_i = q S_ref CD_induced (N),
+/// which is what the aircraft pays; comparing coefficients of cases with different reference areas would not be.
+struct SameAircraft {
+  double weight_N = 0.0;   ///< N, > 0
+  double speed = 0.0;      ///< m/s, true airspeed, > 0
+  double density = 0.0;    ///< kg/m^3, > 0
+};
+
 struct CompareOptions {
   std::optional<double> target_CL;  ///< default: the first case's CL at its first flight point
+  std::optional<SameAircraft> same_aircraft;  ///< instead of target_CL: each case at W / (q S_ref)
   RunOptions run;                   ///< run.threads: the threads of the whole comparison (PlanThreads)
 };
 
@@ -219,17 +229,20 @@ struct CompareEntry {
   double cl_peak_eta = 0.0;         ///< where the first surface's local cl peaks, |y| / semi-span
   double cl_peak_over_CL = 0.0;     ///< that peak cl over the configuration CL
   std::optional<double> neutral_point_x;  ///< m
+  std::optional<double> induced_drag_N;   ///< q S_ref CD_induced, with CompareOptions::same_aircraft only
   int rank = 0;                     ///< 1 = least induced drag; equal drags share a rank
   std::vector<SpanLoadingSeries> span_loading;  ///< at the target CL (SpanLoadingWithElliptic), for plots
 };
 
 struct Comparison {
-  double target_CL = 0.0;
+  double target_CL = 0.0;  ///< the common CL; with same_aircraft, the first case's (each entry has its own CL)
+  std::optional<SameAircraft> same_aircraft;  ///< set when the cases were compared at one weight and speed
   std::vector<CompareEntry> entries;  ///< in the order given
   std::vector<std::size_t> ranked;    ///< indices into entries, least induced drag first (stable for ties)
 };
 
-/// Solves every case at the same CL and ranks them by induced drag, the cases in parallel (PlanThreads).
+/// Solves every case at the same CL and ranks them by induced drag, the cases in parallel (PlanThreads); with
+/// options.same_aircraft, each case at the CL that carries that weight and ranked by induced drag force.
 /// Throws InputError (naming the case) when a case cannot reach the target: the first such case in the order
 /// given.
 Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& options);

@@ -85,6 +85,7 @@ struct CompareArgs {
   std::vector<std::string> cases;
   double cl = 0.0;
   bool cl_given = false;
+  std::optional<double> weight, speed, density;  ///< --weight/--speed/--density: one aircraft, each case at W/(q S)
   std::string json, csv_dir;
   std::string svg;  ///< --svg FILE: the cases' span loadings overlaid
   int threads = 0;  ///< for all the cases together: see study::PlanThreads
@@ -99,6 +100,10 @@ int RunCompare(const CompareArgs& t) {
   }
   skein::study::CompareOptions o;
   if (t.cl_given) o.target_CL = t.cl;
+  if (t.weight) {
+    // The density defaults to the first case's [flight] density (its standard atmosphere's, given an altitude).
+    o.same_aircraft = skein::study::SameAircraft{*t.weight, *t.speed, t.density.value_or(cases.front().flight.density)};
+  }
   o.run.threads = t.threads;
   const skein::study::Comparison cmp = skein::study::CompareCases(cases, o);
   StagedOutputs out(inputs);
@@ -272,6 +277,22 @@ int main(int argc, char** argv) {
   compare->add_option("CASES", cmp.cases, "case files (TOML)")->required();
   compare->add_option("--cl", cmp.cl, "lift coefficient for every case (default: the first case's first point)")
       ->each([&](const std::string&) { cmp.cl_given = true; });
+  auto* weight = compare->add_option("--weight", cmp.weight,
+                                     "compare one aircraft instead of one CL: its weight in N (each case at "
+                                     "CL = W / (q S_ref), ranked by induced drag force); needs --speed")
+                     ->type_name("N")
+                     ->check(CLI::PositiveNumber);
+  auto* speed = compare->add_option("--speed", cmp.speed, "true airspeed for --weight, m/s")
+                    ->type_name("M/S")
+                    ->check(CLI::PositiveNumber);
+  auto* density = compare->add_option("--density", cmp.density,
+                                      "air density for --weight, kg/m^3 (default: the first case's)")
+                      ->type_name("KG/M3")
+                      ->check(CLI::PositiveNumber);
+  weight->needs(speed);
+  speed->needs(weight);
+  density->needs(weight);
+  weight->excludes("--cl");
   compare->add_option("--json", cmp.json, "write the comparison to FILE ('-' for standard output)")
       ->type_name("FILE");
   compare->add_option("--csv", cmp.csv_dir, "write compare.csv into DIR")->type_name("DIR");

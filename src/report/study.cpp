@@ -142,13 +142,21 @@ std::string CsvNum(double v) { return std::isfinite(v) ? fmt::format("{:.17g}", 
 }  // namespace
 
 void WriteComparisonTable(const study::Comparison& c, std::ostream& out) {
-  out << fmt::format("Skein comparison at CL {:.4f} (every case at this lift; ranked by induced drag)\n\n",
-                     c.target_CL);
-  out << " rank  alpha   CD_induced      e  CL_alpha  root bending  cl peak at   peak cl   neutral pt  case\n";
-  out << "         deg                         /rad   /(q S b)     y/semi-span  / CL       x m\n";
+  if (c.same_aircraft)
+    out << fmt::format("Skein comparison of one aircraft: weight {:g} N at {:g} m/s, density {:g} kg/m^3\n"
+                       "(each case at CL = W / (q S_ref) for its own reference area; ranked by induced drag force)\n\n",
+                       c.same_aircraft->weight_N, c.same_aircraft->speed, c.same_aircraft->density);
+  else
+    out << fmt::format("Skein comparison at CL {:.4f} (every case at this lift; ranked by induced drag)\n\n",
+                       c.target_CL);
+  const bool force = c.same_aircraft.has_value();
+  out << " rank" << (force ? "      CL  D_induced" : "") << "  alpha   CD_induced      e  CL_alpha  root bending  cl peak at   peak cl   neutral pt  case\n";
+  out << "     " << (force ? "                  N" : "") << "    deg                         /rad   /(q S b)     y/semi-span  / CL       x m\n";
   for (std::size_t i : c.ranked) {
     const study::CompareEntry& e = c.entries[i];
-    out << fmt::format("{:>5} {} {} {} {} {} {} {} {}  {}\n", e.rank, Cell(e.alpha_deg, 6, 2),
+    out << fmt::format("{:>5}", e.rank);
+    if (force) out << fmt::format(" {} {}", Cell(e.CL, 7, 4), Cell(OrNan(e.induced_drag_N), 10, 3));
+    out << fmt::format(" {} {} {} {} {} {} {} {}  {}\n", Cell(e.alpha_deg, 6, 2),
                        Cell(e.CD_induced, 12, 6), Cell(OrNan(e.span_efficiency), 6, 3), Cell(e.CL_alpha, 9, 3),
                        Cell(e.root_bending, 13, 5), Cell(e.cl_peak_eta, 12, 3), Cell(e.cl_peak_over_CL, 9, 3),
                        Cell(OrNan(e.neutral_point_x), 11, 4), CaseName(e));
@@ -176,11 +184,19 @@ void WriteComparisonJson(const study::Comparison& c, std::ostream& out) {
                      {"cl_peak_eta", Num(e.cl_peak_eta, at + ".cl_peak_eta", problems)},
                      {"cl_peak_over_CL", Num(e.cl_peak_over_CL, at + ".cl_peak_over_CL", problems)},
                      {"neutral_point_x", e.neutral_point_x ? Num(*e.neutral_point_x, at, problems) : ordered_json()}});
+    if (e.induced_drag_N) cases.back()["induced_drag_N"] = Num(*e.induced_drag_N, at + ".induced_drag_N", problems);
   }
   ordered_json doc;
   doc["format"] = "skein-comparison";
   doc["version"] = 1;
-  doc["CL"] = c.target_CL;
+  if (c.same_aircraft) {
+    doc["CL"] = nullptr;  // each case flies at its own CL: cases[].CL
+    doc["same_aircraft"] = {{"weight_N", c.same_aircraft->weight_N},
+                            {"speed", c.same_aircraft->speed},
+                            {"density", c.same_aircraft->density}};
+  } else {
+    doc["CL"] = c.target_CL;
+  }
   doc["cautions"] = "Conceptual-design estimates from linear, inviscid theory: no stall, separation or viscous "
                     "drag. Verify by test and follow the applicable airworthiness rules and licensed engineers.";
   doc["cases"] = cases;
@@ -190,13 +206,14 @@ void WriteComparisonJson(const study::Comparison& c, std::ostream& out) {
 
 void WriteComparisonCsv(const study::Comparison& c, std::ostream& out) {
   out << "rank,case,title,alpha_deg,CL,CD_induced,span_efficiency,CL_alpha,root_bending,cl_peak_eta,"
-         "cl_peak_over_CL,neutral_point_x\n";
+         "cl_peak_over_CL,neutral_point_x,induced_drag_N\n";
   for (std::size_t i : c.ranked) {
     const study::CompareEntry& e = c.entries[i];
     out << e.rank << ',' << CsvField(e.source) << ',' << CsvField(e.title) << ',' << CsvNum(e.alpha_deg) << ','
         << CsvNum(e.CL) << ',' << CsvNum(e.CD_induced) << ',' << CsvNum(OrNan(e.span_efficiency)) << ','
         << CsvNum(e.CL_alpha) << ',' << CsvNum(e.root_bending) << ',' << CsvNum(e.cl_peak_eta) << ','
-        << CsvNum(e.cl_peak_over_CL) << ',' << CsvNum(OrNan(e.neutral_point_x)) << '\n';
+        << CsvNum(e.cl_peak_over_CL) << ',' << CsvNum(OrNan(e.neutral_point_x)) << ','
+        << CsvNum(OrNan(e.induced_drag_N)) << '\n';
   }
 }
 

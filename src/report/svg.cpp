@@ -315,7 +315,10 @@ std::vector<NamedChart> ResultPlots(const Results& r, const Lattice& lat) {
 
 plot::Chart ComparisonSpanLoadingChart(const study::Comparison& cmp) {
   plot::Chart ch;
-  ch.title = fmt::format("Span loading of the compared cases at CL {}", Num(cmp.target_CL, 4));
+  ch.title = cmp.same_aircraft
+                 ? fmt::format("Span loading of the compared cases at {:g} N and {:g} m/s", cmp.same_aircraft->weight_N,
+                               cmp.same_aircraft->speed)
+                 : fmt::format("Span loading of the compared cases at CL {}", Num(cmp.target_CL, 4));
   ch.subtitle = "each case at its own angle of attack for the common CL";
   ch.x.title = "spanwise station y (m)";
   ch.x.ticks = 8;

@@ -105,6 +105,30 @@ TEST_F(StudyCli, TwistWritesACaseThatSolvesToTheTargetLift) {
   EXPECT_EQ(csv.compare(first_row, 16, "1,\"twisted.toml\""), 0) << csv;
 }
 
+TEST_F(StudyCli, CompareOneAircraftRanksByInducedDragForce) {
+  // D_i = q S_ref CD_induced at CL = W / (q S_ref) (the definition of the coefficients; common practice).
+  const Outcome o = Skein("compare wing.toml wing.toml --weight 900 --speed 35 --density 1.1 --csv cmp --json cmp.json");
+  ASSERT_EQ(o.exit_code, 0) << o.err;
+  EXPECT_NE(o.out.find("weight 900 N at 35 m/s, density 1.1 kg/m^3"), std::string::npos) << o.out;
+  const skein::Case c = skein::ReadCaseFile((dir_ / "wing.toml").string());
+  const double q = 0.5 * 1.1 * 35.0 * 35.0, CL = 900.0 / (q * c.reference.area);
+  const nlohmann::json doc = nlohmann::json::parse(ReadFile(dir_ / "cmp.json"));
+  EXPECT_TRUE(doc["CL"].is_null());
+  for (const auto& e : doc["cases"]) {
+    EXPECT_EQ(e["rank"], 1);
+    EXPECT_NEAR(e["CL"].get<double>(), CL, 1e-9);
+    EXPECT_NEAR(e["induced_drag_N"].get<double>(), q * c.reference.area * e["CD_induced"].get<double>(), 1e-12);
+  }
+  EXPECT_NE(ReadFile(dir_ / "cmp" / "compare.csv").find(",induced_drag_N\n"), std::string::npos);
+  // --weight needs --speed, and excludes --cl: refused before any work, no file written.
+  for (const char* args : {"compare wing.toml --weight 900 --json bad.json", "compare wing.toml --weight 900 --speed 35 --cl 0.4 --json bad.json",
+                           "compare wing.toml --weight -1 --speed 35 --json bad.json"}) {
+    const Outcome b = Skein(args);
+    EXPECT_EQ(b.exit_code, 2) << args;
+    EXPECT_FALSE(std::filesystem::exists(dir_ / "bad.json")) << args;
+  }
+}
+
 TEST_F(StudyCli, BadInputGivesOneLineAndNoOutput) {
   const Outcome t = Skein("twist wing.toml --cl 0 --out twisted.toml --json design.json");
   EXPECT_EQ(t.exit_code, 2);

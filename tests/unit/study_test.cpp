@@ -345,6 +345,43 @@ TEST(Compare, RanksByInducedDragAtTheSameLift) {
   EXPECT_NEAR(cmp.entries[0].CD_induced, d.before.CD_induced, 1e-9 * d.before.CD_induced);
 }
 
+TEST(Compare, OneAircraftOnTwoWingsOfOneShapePaysInducedDragAsTheSquareOfTheSpanRatio) {
+  // Source: L. Prandtl, "Tragflügeltheorie", 1918: D_i = L^2 / (q pi b^2 e). The same weight on a wing scaled by
+  // k in every direction flies at CL / k^2; its induced drag force is about 1 / k^2 of the smaller wing's, and
+  // the ranking follows the force, where at one CL the two rank equal.
+  const double k = 1.25;
+  const Case small = testing::WingCase(testing::TaperedWing(8.0, 1.2, 0.45, 15.0, testing::Mesh(4, 12)), {3.0});
+  const Case large = testing::WingCase(testing::TaperedWing(8.0 * k, 1.2 * k, 0.45, 15.0, testing::Mesh(4, 12)), {3.0});
+  study::CompareOptions o;
+  o.same_aircraft = study::SameAircraft{4000.0, 40.0, 1.1};
+  const study::Comparison cmp = study::CompareCases({small, large}, o);
+  ASSERT_EQ(cmp.entries.size(), 2u);
+  const double q = 0.5 * 1.1 * 40.0 * 40.0;
+  for (std::size_t i = 0; i < 2; ++i) {
+    const study::CompareEntry& e = cmp.entries[i];
+    const Case& c = i == 0 ? small : large;
+    EXPECT_NEAR(e.CL, 4000.0 / (q * c.reference.area), 1e-10);
+    ASSERT_TRUE(e.induced_drag_N && e.span_efficiency);
+    const double b = c.reference.span;
+    EXPECT_NEAR(*e.induced_drag_N, 4000.0 * 4000.0 / (q * M_PI * b * b * *e.span_efficiency), 1e-9 * *e.induced_drag_N);
+  }
+  // The span efficiencies differ a little (0.4 % here): the larger wing flies at a smaller angle, and the lift
+  // is the force normal to the freestream, so e carries a cos(alpha) the linear theory keeps. The force ratio is
+  // then (b_small / b_large)^2 e_small / e_large, within a percent of 1 / k^2.
+  const double e_ratio = *cmp.entries[0].span_efficiency / *cmp.entries[1].span_efficiency;
+  EXPECT_NEAR(*cmp.entries[1].induced_drag_N / *cmp.entries[0].induced_drag_N, e_ratio / (k * k), 1e-9);
+  EXPECT_NEAR(e_ratio, 1.0, 0.01);
+  EXPECT_EQ(cmp.ranked.front(), 1u);  // the larger wing pays less
+  EXPECT_EQ(cmp.entries[1].rank, 1);
+  EXPECT_EQ(cmp.entries[0].rank, 2);
+  // At one CL instead, the two rank equal: the same CD_induced.
+  study::CompareOptions at_cl;
+  at_cl.target_CL = 0.4;
+  const study::Comparison same_cl = study::CompareCases({small, large}, at_cl);
+  EXPECT_EQ(same_cl.entries[0].rank, same_cl.entries[1].rank);
+  EXPECT_FALSE(same_cl.entries[0].induced_drag_N);
+}
+
 TEST(Compare, RootBendingOfAnEllipticLoadIsItsCentroidMoment) {
   // Half the lift at 4 s / (3 pi) from the root for an elliptic loading (common practice: the centroid of a
   // half ellipse); the elliptic planform of an untwisted flat wing carries a near-elliptic load, so the root
