@@ -14,8 +14,10 @@ start=$(date +%s)
 
 generator=()
 command -v ninja >/dev/null 2>&1 && generator=(-G Ninja)
+# -O1 -g1 (line tables only): the sanitizers' reports keep file and line, and the build takes half the time of
+# -O2 -g (measured on src/study.cpp: 55 s against 110 s), which keeps CI inside its 30 minutes.
 cmake -S . -B "$build" "${generator[@]}" -DSKEIN_SANITIZE=ON -DCMAKE_BUILD_TYPE="${BUILD_TYPE:-RelWithDebInfo}" \
-      -DSKEIN_BUILD_TESTS=ON >/dev/null
+      -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="${SANITIZE_OPT_FLAGS:--O1 -g1 -DNDEBUG}" -DSKEIN_BUILD_TESTS=ON >/dev/null
 cmake --build "$build" -j "$jobs"
 built=$(date +%s)
 
