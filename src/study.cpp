@@ -580,6 +580,8 @@ ThreadPlan ForEachCase(std::size_t n, int total, Solve&& solve) {
 }
 
 /// The figures of a point that compare and study report.
+double DynamicPressure(const SameAircraft& a) { return 0.5 * a.density * a.speed * a.speed; }
+
 CompareEntry Describe(const Case& c, const PointAtLift& p) {
   CompareEntry e;
   e.title = c.title;
@@ -602,7 +604,6 @@ CompareEntry Describe(const Case& c, const PointAtLift& p) {
   e.cl_peak_eta = semi > 0.0 ? std::abs(sl.y[peak]) / semi : std::numeric_limits<double>::quiet_NaN();
   e.cl_peak_over_CL = sl.cl[peak] / p.point.CL;
   if (p.point.neutral_point) e.neutral_point_x = (*p.point.neutral_point)[0];
-  e.span_loading = SpanLoadingWithElliptic(p.lattice, p.point, c.reference);
   return e;
 }
 
@@ -628,8 +629,7 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
           std::isfinite(a.speed) && std::isfinite(a.density)))
       throw InputError(fmt::format("compare: weight, speed and density must be positive and finite, got {:g} N, "
                                    "{:g} m/s, {:g} kg/m^3", a.weight_N, a.speed, a.density));
-    const double q = 0.5 * a.density * a.speed * a.speed;
-    for (std::size_t i = 0; i < cases.size(); ++i) lift_of[i] = a.weight_N / (q * cases[i].reference.area);
+    for (std::size_t i = 0; i < cases.size(); ++i) lift_of[i] = a.weight_N / (DynamicPressure(a) * cases[i].reference.area);
     cmp.target_CL = lift_of.front();
   } else if (o.target_CL) {
     cmp.target_CL = *o.target_CL;
@@ -649,12 +649,11 @@ Comparison CompareCases(const std::vector<Case>& cases, const CompareOptions& o)
   ForEachCase(cases.size(), o.run.threads, [&](std::size_t i, int threads) {
     RunOptions run = o.run;
     run.threads = threads;
-    cmp.entries[i] = Describe(cases[i], SolveAtLift(cases[i], lift_of[i], run));
-    if (o.same_aircraft) {
-      const SameAircraft& a = *o.same_aircraft;
-      cmp.entries[i].induced_drag_N =
-          0.5 * a.density * a.speed * a.speed * cases[i].reference.area * cmp.entries[i].CD_induced;
-    }
+    const PointAtLift p = SolveAtLift(cases[i], lift_of[i], run);
+    CompareEntry& e = cmp.entries[i];
+    e = Describe(cases[i], p);
+    e.span_loading = SpanLoadingWithElliptic(p.lattice, p.point, cases[i].reference);  // for the overlay plot
+    if (o.same_aircraft) e.induced_drag_N = DynamicPressure(*o.same_aircraft) * cases[i].reference.area * e.CD_induced;
   });
   for (std::size_t i = 0; i < cmp.entries.size(); ++i) cmp.ranked.push_back(i);
   // The ranking key: the induced drag coefficient at a common CL, the induced drag force for one aircraft.

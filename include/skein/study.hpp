@@ -231,7 +231,7 @@ struct CompareEntry {
   std::optional<double> neutral_point_x;  ///< m
   std::optional<double> induced_drag_N;   ///< q S_ref CD_induced, with CompareOptions::same_aircraft only
   int rank = 0;                     ///< 1 = least induced drag; equal drags share a rank
-  std::vector<SpanLoadingSeries> span_loading;  ///< at the target CL (SpanLoadingWithElliptic), for plots
+  std::vector<SpanLoadingSeries> span_loading;  ///< at the target CL (SpanLoadingWithElliptic), for compare's overlay plot (empty in a study)
 };
 
 struct Comparison {

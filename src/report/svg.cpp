@@ -12,15 +12,20 @@
 
 namespace skein::report {
 
-plot::Chart SpanLoadingChart(const SpanLoadingPlot& p) {
-  plot::Chart ch;
-  ch.title = "Span loading: " + p.title;
-  ch.subtitle = fmt::format("alpha {:.2f} deg, beta {:.2f} deg, CL {:.4f}", p.alpha_deg, p.beta_deg, p.CL);
+/// The axes every span-loading chart shares: y across the span, cl c / c_ref up from zero.
+void SetSpanLoadingAxes(plot::Chart& ch) {
   ch.x.title = "spanwise station y (m)";
   ch.x.ticks = 8;
   ch.y.title = "span loading cl c / c_ref (-)";
   ch.y.include_zero = true;
   ch.y.headroom = 0.05;
+}
+
+plot::Chart SpanLoadingChart(const SpanLoadingPlot& p) {
+  plot::Chart ch;
+  ch.title = "Span loading: " + p.title;
+  ch.subtitle = fmt::format("alpha {:.2f} deg, beta {:.2f} deg, CL {:.4f}", p.alpha_deg, p.beta_deg, p.CL);
+  SetSpanLoadingAxes(ch);
   for (std::size_t i = 0; i < p.series.size(); ++i) {
     const study::SpanLoadingSeries& s = p.series[i];
     plot::Series loading;
@@ -319,12 +324,9 @@ plot::Chart ComparisonSpanLoadingChart(const study::Comparison& cmp) {
                  ? fmt::format("Span loading of the compared cases at {:g} N and {:g} m/s", cmp.same_aircraft->weight_N,
                                cmp.same_aircraft->speed)
                  : fmt::format("Span loading of the compared cases at CL {}", Num(cmp.target_CL, 4));
-  ch.subtitle = "each case at its own angle of attack for the common CL";
-  ch.x.title = "spanwise station y (m)";
-  ch.x.ticks = 8;
-  ch.y.title = "span loading cl c / c_ref (-)";
-  ch.y.include_zero = true;
-  ch.y.headroom = 0.05;
+  ch.subtitle = cmp.same_aircraft ? "each case at the CL its own reference area needs for that weight"
+                                  : "each case at its own angle of attack for the common CL";
+  SetSpanLoadingAxes(ch);
   for (std::size_t n = 0; n < cmp.entries.size(); ++n) {
     const study::CompareEntry& e = cmp.entries[n];
     const std::string name = e.title.empty() ? e.source : e.title;
