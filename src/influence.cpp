@@ -1,7 +1,7 @@
 // Skein stage 3, assemble. See influence.hpp.
 //
 // Speed. Both passes spend their time in the horseshoe kernel, so it is evaluated here in a form with the
-// divisions merged: per horseshoe four square roots and five divisions instead of the four and twelve of
+// divisions merged: per horseshoe four square roots and two divisions instead of the four and twelve of
 // AddHorseshoeVelocity (biot_savart.hpp), which stays the reference the tests hold these loops to (1e-12,
 // tests/unit/speed_paths_test.cpp). With c = r1 x r2 (|c|^2 = h^2 |r0|^2, h the distance to the segment's
 // line) and k = r0 . (r1 |r2| - r2 |r1|) = |r1| |r2| r0 . (r1/|r1| - r2/|r2|), the finite segment's factor is
@@ -9,7 +9,10 @@
 // and a semi-infinite leg's (unit d, c = d x r, |c| = h, s = +1 or -1)
 //     f = s (|r| + r . d) |c|^2 / (4 pi |r| (|c|^4 + eps^4)):
 // the expressions of biot_savart.hpp multiplied out. eps^4 |r0|^4 belongs to the source and is computed once.
-// The products stay in range for lengths between about 1e-25 m and 1e25 m.
+// Of the five denominators (each of order length^10 for a segment, length^5 for a leg, and floored at 1e-100,
+// where the reference adds 1e-300), the two legs' and the first segment's share one division and the other
+// two segments' another: 1/x = y z / (x y z). So a horseshoe costs four square roots and two divisions, and
+// the products stay in range for lengths between about 1e-8 m and 1e14 m.
 //
 // The loops run over contiguous arrays without branches (the ground plane is a template argument) and are
 // compiled twice, for the baseline instruction set and for AVX2 with FMA, chosen at run time by what the
@@ -32,6 +35,7 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <atomic>
 #include <cstdint>
 #include <functional>
 #include <utility>
@@ -46,6 +50,7 @@
 #if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
 #define SKEIN_AVX2_CLONE 1
 #define SKEIN_TARGET_AVX2 __attribute__((target("avx2,fma")))
+#define SKEIN_TARGET_AVX512 __attribute__((target("avx512f,avx512dq,avx512vl,avx2,fma,prefer-vector-width=512")))
 #endif
 #if defined(__GNUC__) || defined(__clang__)
 #define SKEIN_ALWAYS_INLINE inline __attribute__((always_inline))
@@ -58,33 +63,45 @@ namespace {
 
 // ---- the kernel ---------------------------------------------------------------------------------------
 
+/// Smallest denominator of a term's factor (see the file comment): three of them multiply to a normal number.
+constexpr double kDenominatorFloor = 1e-100;
+
 /// Finite segment from A to B at P: r1 = P - A, r2 = P - B with lengths n1, n2 (>= kTiny), r0 = B - A,
-/// e = eps^4 |r0|^4. Adds to (u, v, w).
-SKEIN_ALWAYS_INLINE void SegmentTerm(double r1x, double r1y, double r1z, double n1, double r2x, double r2y,
-                                     double r2z, double n2, double r0x, double r0y, double r0z, double e,
-                                     double& u, double& v, double& w) {
-  const double cx = r1y * r2z - r1z * r2y;
-  const double cy = r1z * r2x - r1x * r2z;
-  const double cz = r1x * r2y - r1y * r2x;
-  const double c2 = cx * cx + cy * cy + cz * cz;
+/// e = eps^4 |r0|^4. Its cross product c and the numerator and denominator of its factor f = num / den.
+struct Term {
+  double cx, cy, cz, num, den;
+};
+SKEIN_ALWAYS_INLINE Term SegmentTerm(double r1x, double r1y, double r1z, double n1, double r2x, double r2y,
+                                     double r2z, double n2, double r0x, double r0y, double r0z, double e) {
+  Term t;
+  t.cx = r1y * r2z - r1z * r2y;
+  t.cy = r1z * r2x - r1x * r2z;
+  t.cz = r1x * r2y - r1y * r2x;
+  const double c2 = t.cx * t.cx + t.cy * t.cy + t.cz * t.cz;
   const double k = r0x * (r1x * n2 - r2x * n1) + r0y * (r1y * n2 - r2y * n1) + r0z * (r1z * n2 - r2z * n1);
-  const double f = kInv4Pi * k * c2 / (n1 * n2 * (c2 * c2 + e) + kTiny);
-  u += f * cx;
-  v += f * cy;
-  w += f * cz;
+  t.num = kInv4Pi * k * c2;
+  t.den = std::max(n1 * n2 * (c2 * c2 + e), kDenominatorFloor);
+  return t;
 }
 
 /// Semi-infinite leg from A along the unit vector d at P: r = P - A with length n (>= kTiny), strength s.
-SKEIN_ALWAYS_INLINE void SemiInfiniteTerm(double rx, double ry, double rz, double n, double dx, double dy,
-                                          double dz, double eps4, double s, double& u, double& v, double& w) {
-  const double cx = dy * rz - dz * ry;
-  const double cy = dz * rx - dx * rz;
-  const double cz = dx * ry - dy * rx;
-  const double h2 = cx * cx + cy * cy + cz * cz;
-  const double f = s * kInv4Pi * (n + (rx * dx + ry * dy + rz * dz)) * h2 / (n * (h2 * h2 + eps4) + kTiny);
-  u += f * cx;
-  v += f * cy;
-  w += f * cz;
+SKEIN_ALWAYS_INLINE Term SemiInfiniteTerm(double rx, double ry, double rz, double n, double dx, double dy,
+                                          double dz, double eps4, double s) {
+  Term t;
+  t.cx = dy * rz - dz * ry;
+  t.cy = dz * rx - dx * rz;
+  t.cz = dx * ry - dy * rx;
+  const double h2 = t.cx * t.cx + t.cy * t.cy + t.cz * t.cz;
+  t.num = s * kInv4Pi * (n + (rx * dx + ry * dy + rz * dz)) * h2;
+  t.den = std::max(n * (h2 * h2 + eps4), kDenominatorFloor);
+  return t;
+}
+
+SKEIN_ALWAYS_INLINE void AddTerm(const Term& t, double inv_den, double& u, double& v, double& w) {
+  const double f = t.num * inv_den;
+  u += f * t.cx;
+  v += f * t.cy;
+  w += f * t.cz;
 }
 
 /// One horseshoe (infinity -> TA -> A -> B -> TB -> infinity, legs along d) with its per-source constants.
@@ -95,7 +112,8 @@ struct Shoe {
 };
 
 /// Velocity at P of a unit horseshoe given by scalars (the same legs, in the same order, as
-/// AddHorseshoeVelocity). Adds to (u, v, w).
+/// AddHorseshoeVelocity). Adds to (u, v, w). The five denominators take two divisions, in groups of three and
+/// two (see the file comment).
 SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
                                       double ax, double ay, double az, double bx, double by, double bz,
                                       double tbx, double tby, double tbz, double e0, double e1, double e2,
@@ -109,11 +127,19 @@ SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double ta
   const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
   const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
   const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
-  SemiInfiniteTerm(qx, qy, qz, nq, dx, dy, dz, eps4, -1.0, u, v, w);
-  SegmentTerm(qx, qy, qz, nq, r1x, r1y, r1z, n1, ax - tax, ay - tay, az - taz, e0, u, v, w);
-  SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, bx - ax, by - ay, bz - az, e1, u, v, w);
-  SegmentTerm(r2x, r2y, r2z, n2, sx, sy, sz, ns, tbx - bx, tby - by, tbz - bz, e2, u, v, w);
-  SemiInfiniteTerm(sx, sy, sz, ns, dx, dy, dz, eps4, 1.0, u, v, w);
+  const Term t0 = SemiInfiniteTerm(qx, qy, qz, nq, dx, dy, dz, eps4, -1.0);
+  const Term t1 = SegmentTerm(qx, qy, qz, nq, r1x, r1y, r1z, n1, ax - tax, ay - tay, az - taz, e0);
+  const Term t2 = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, bx - ax, by - ay, bz - az, e1);
+  const Term t3 = SegmentTerm(r2x, r2y, r2z, n2, sx, sy, sz, ns, tbx - bx, tby - by, tbz - bz, e2);
+  const Term t4 = SemiInfiniteTerm(sx, sy, sz, ns, dx, dy, dz, eps4, 1.0);
+  // 1/x, 1/y, 1/z from 1/(x y z), and 1/x, 1/y from 1/(x y).
+  const double d14 = t1.den * t4.den, inv_a = 1.0 / (t0.den * d14);
+  const double inv_b = 1.0 / (t2.den * t3.den);
+  AddTerm(t0, inv_a * d14, u, v, w);
+  AddTerm(t1, inv_a * t0.den * t4.den, u, v, w);
+  AddTerm(t2, inv_b * t3.den, u, v, w);
+  AddTerm(t3, inv_b * t2.den, u, v, w);
+  AddTerm(t4, inv_a * t0.den * t1.den, u, v, w);
 }
 
 SKEIN_ALWAYS_INLINE void ShoeVelocity(const Shoe& s, double px, double py, double pz, double& u, double& v,
@@ -295,54 +321,103 @@ SKEIN_ALWAYS_INLINE void PairedRowImpl(const ShoeTable& t, const ShoeTable& g, s
   }
 }
 
+// ---- the product of the velocity pass ------------------------------------------------------------------
+
+/// Y = R G for the kernel rows R (rows x n, row-major, row stride ldr; rows a multiple of kProductRows) and the
+/// circulations G (n x kw, row-major, kw a multiple of kProductCols): Y (rows x kw, row-major). Every entry
+/// is the sum over the sources in their order, so the bits do not depend on the thread that computes it.
+/// Written out (not Eigen's product) so that it is compiled for the processor's instruction set with the
+/// kernels, register-blocked kProductRows x kProductCols.
+constexpr std::size_t kProductRows = 4, kProductCols = 8;
+using Lanes = double __attribute__((vector_size(32), aligned(8)));  // four doubles, unaligned access allowed
+
+SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size_t rows, const double* g,
+                                     std::size_t n, std::size_t kw, double* y) {
+  for (std::size_t i0 = 0; i0 < rows; i0 += kProductRows) {
+    const double *r0 = r + i0 * ldr, *r1 = r0 + ldr, *r2 = r1 + ldr, *r3 = r2 + ldr;
+    for (std::size_t k0 = 0; k0 < kw; k0 += kProductCols) {
+      Lanes a0 = {0, 0, 0, 0}, b0 = a0, a1 = a0, b1 = a0, a2 = a0, b2 = a0, a3 = a0, b3 = a0;
+      const double* gk = g + k0;
+      for (std::size_t j = 0; j < n; ++j) {
+        const Lanes ga = *reinterpret_cast<const Lanes*>(gk + j * kw);
+        const Lanes gb = *reinterpret_cast<const Lanes*>(gk + j * kw + 4);
+        a0 += r0[j] * ga;
+        b0 += r0[j] * gb;
+        a1 += r1[j] * ga;
+        b1 += r1[j] * gb;
+        a2 += r2[j] * ga;
+        b2 += r2[j] * gb;
+        a3 += r3[j] * ga;
+        b3 += r3[j] * gb;
+      }
+      double* yk = y + i0 * kw + k0;
+      *reinterpret_cast<Lanes*>(yk) = a0;
+      *reinterpret_cast<Lanes*>(yk + 4) = b0;
+      *reinterpret_cast<Lanes*>(yk + kw) = a1;
+      *reinterpret_cast<Lanes*>(yk + kw + 4) = b1;
+      *reinterpret_cast<Lanes*>(yk + 2 * kw) = a2;
+      *reinterpret_cast<Lanes*>(yk + 2 * kw + 4) = b2;
+      *reinterpret_cast<Lanes*>(yk + 3 * kw) = a3;
+      *reinterpret_cast<Lanes*>(yk + 3 * kw + 4) = b3;
+    }
+  }
+}
+
 // ---- one instance per instruction set, chosen at run time -------------------------------------------------
 
-template <bool kGround>
-void DirectColumnBase(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {
-  DirectColumnImpl<kGround>(t, s, g, out);
-}
-template <bool kGround>
-void PairColumnBase(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m, const Shoe& mg,
-                    std::size_t n_sym, double* anti, double* sym) {
-  PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
-}
-template <bool kGround>
-void KernelRowBase(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last, double px,
-                   double py, double pz, double* ru, double* rv, double* rw) {
-  KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);
-}
-template <bool kGround>
-void PairedRowBase(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px, double py, double pz,
-                   double* ru, double* rv, double* rw) {
-  PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);
-}
+/// The kernels compiled for one instruction set (ATTR: a target attribute, or nothing for the baseline).
+#define SKEIN_KERNEL_SET(Name, ATTR)                                                                           \
+  ATTR void Product##Name(const double* r, std::size_t ldr, std::size_t rows, const double* g, std::size_t n, \
+                          std::size_t kw, double* y) {                                                        \
+    ProductImpl(r, ldr, rows, g, n, kw, y);                                                                   \
+  }                                                                                                           \
+  template <bool kGround>                                                                                     \
+  ATTR void DirectColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {            \
+    DirectColumnImpl<kGround>(t, s, g, out);                                                                  \
+  }                                                                                                           \
+  template <bool kGround>                                                                                     \
+  ATTR void PairColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m,             \
+                             const Shoe& mg, std::size_t n_sym, double* anti, double* sym) {                  \
+    PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);                                               \
+  }                                                                                                           \
+  template <bool kGround>                                                                                     \
+  ATTR void KernelRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,      \
+                            double px, double py, double pz, double* ru, double* rv, double* rw) {            \
+    KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);                                        \
+  }                                                                                                           \
+  template <bool kGround>                                                                                     \
+  ATTR void PairedRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px, double py,  \
+                            double pz, double* ru, double* rv, double* rw) {                                  \
+    PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);                                              \
+  }
+
+SKEIN_KERNEL_SET(Base, )
 #if defined(SKEIN_AVX2_CLONE)
-template <bool kGround>
-SKEIN_TARGET_AVX2 void DirectColumnAvx2(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {
-  DirectColumnImpl<kGround>(t, s, g, out);
-}
-template <bool kGround>
-SKEIN_TARGET_AVX2 void PairColumnAvx2(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m,
-                                      const Shoe& mg, std::size_t n_sym, double* anti, double* sym) {
-  PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);
-}
-template <bool kGround>
-SKEIN_TARGET_AVX2 void KernelRowAvx2(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,
-                                     double px, double py, double pz, double* ru, double* rv, double* rw) {
-  KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);
-}
-template <bool kGround>
-SKEIN_TARGET_AVX2 void PairedRowAvx2(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px,
-                                     double py, double pz, double* ru, double* rv, double* rw) {
-  PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);
-}
+SKEIN_KERNEL_SET(Avx2, SKEIN_TARGET_AVX2)
+SKEIN_KERNEL_SET(Avx512, SKEIN_TARGET_AVX512)
 bool HaveAvx2() {
   static const bool have = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
   return have;
 }
-#else
-bool HaveAvx2() { return false; }
+bool HaveAvx512() {
+  static const bool have = HaveAvx2() && __builtin_cpu_supports("avx512f") && __builtin_cpu_supports("avx512dq") &&
+                           __builtin_cpu_supports("avx512vl");
+  return have;
+}
 #endif
+#undef SKEIN_KERNEL_SET
+
+KernelIsa Fastest() {
+#if defined(SKEIN_AVX2_CLONE)
+  if (HaveAvx512()) return KernelIsa::avx512;
+  if (HaveAvx2()) return KernelIsa::avx2;
+#endif
+  return KernelIsa::baseline;
+}
+std::atomic<int>& IsaCap() {
+  static std::atomic<int> cap{static_cast<int>(KernelIsa::avx512)};
+  return cap;
+}
 
 /// The kernel entry points for this processor and ground setting.
 struct Kernels {
@@ -353,16 +428,21 @@ struct Kernels {
               double*, double*);
   void (*paired)(const ShoeTable&, const ShoeTable&, std::size_t, double, double, double, double*, double*,
                  double*);
+  void (*product)(const double*, std::size_t, std::size_t, const double*, std::size_t, std::size_t, double*);
 };
 
 template <bool kGround>
 Kernels KernelsFor() {
 #if defined(SKEIN_AVX2_CLONE)
-  if (HaveAvx2())
+  if (KernelIsaInUse() == KernelIsa::avx512)
+    return {&DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
+            &PairedRowAvx512<kGround>, &ProductAvx512};
+  if (KernelIsaInUse() == KernelIsa::avx2)
     return {&DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
-            &PairedRowAvx2<kGround>};
+            &PairedRowAvx2<kGround>, &ProductAvx2};
 #endif
-  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>};
+  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
+          &ProductBase};
 }
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
 
@@ -569,6 +649,22 @@ bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, con
   return PlanMirror(lat, points, wake).mirrored;
 }
 
+KernelIsa KernelIsaInUse() {
+  return static_cast<KernelIsa>(std::min(static_cast<int>(Fastest()), IsaCap().load()));
+}
+KernelIsa CapKernelIsa(KernelIsa cap) {
+  IsaCap().store(static_cast<int>(cap));
+  return KernelIsaInUse();
+}
+const char* KernelIsaName(KernelIsa isa) {
+  switch (isa) {
+    case KernelIsa::avx512: return "avx512";
+    case KernelIsa::avx2: return "avx2";
+    case KernelIsa::baseline: break;
+  }
+  return "baseline";
+}
+
 InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, const Eigen::MatrixXd& gamma,
                                   const WakeGeometry& wake, const std::vector<bool>* only) {
   const std::size_t np = points.size(), ns = lat.panels();
@@ -598,33 +694,42 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
     if (ground) table_ground.Add(GroundImage(s, wake));
   }
   if (!ground) table_ground = table;  // read by nothing; keeps the pointers valid
-  // Circulations in table order. Mirrored (see the file comment): with the rows holding, per given horseshoe,
-  // the sum and the difference of its and its mirror's velocities, and then the centre-line ones, the
-  // velocity at a given point is X + Y and at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2,
-  // Y = differences . (g_given - g_mirror) / 2 + centre-line . g_centre.
-  const auto nsi = static_cast<Eigen::Index>(ns);
-  const auto given = static_cast<Eigen::Index>(plan.given);
-  Eigen::MatrixXd g_ordered(nsi, k);
-  for (Eigen::Index r = 0; r < nsi; ++r)
-    g_ordered.row(r) = gamma.row(static_cast<Eigen::Index>(plan.order[static_cast<std::size_t>(r)]));
-  Eigen::MatrixXd g_sum, g_rest;
-  if (plan.mirrored) {
-    g_sum = 0.5 * (g_ordered.topRows(given) + g_ordered.middleRows(given, given));
-    g_rest.resize(nsi - given, k);
-    g_rest.topRows(given) = 0.5 * (g_ordered.topRows(given) - g_ordered.middleRows(given, given));
-    g_rest.bottomRows(nsi - 2 * given) = g_ordered.bottomRows(nsi - 2 * given);
-    g_ordered.resize(0, 0);
+  // Circulations in table order, row-major and padded with zero columns to a multiple of kProductCols.
+  // Mirrored (see the file comment): with the rows holding, per given horseshoe, the sum and the difference of
+  // its and its mirror's velocities, and then the centre-line ones, the velocity at a given point is X + Y and
+  // at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences . (g_given -
+  // g_mirror) / 2 + centre-line . g_centre.
+  const auto kk = static_cast<std::size_t>(k);
+  const std::size_t kw = (kk + kProductCols - 1) / kProductCols * kProductCols;
+  const std::size_t given = plan.given;
+  const auto circulation = [&](std::size_t r, std::size_t c) {
+    return gamma(static_cast<Eigen::Index>(plan.order[r]), static_cast<Eigen::Index>(c));
+  };
+  std::vector<double> g_first(plan.mirrored ? given * kw : ns * kw, 0.0);
+  std::vector<double> g_second(plan.mirrored ? (ns - given) * kw : 0, 0.0);
+  for (std::size_t c = 0; c < kk; ++c) {
+    if (!plan.mirrored) {
+      for (std::size_t r = 0; r < ns; ++r) g_first[r * kw + c] = circulation(r, c);
+      continue;
+    }
+    for (std::size_t r = 0; r < given; ++r) {
+      g_first[r * kw + c] = 0.5 * (circulation(r, c) + circulation(given + r, c));
+      g_second[r * kw + c] = 0.5 * (circulation(r, c) - circulation(given + r, c));
+    }
+    for (std::size_t r = 2 * given; r < ns; ++r) g_second[(r - given) * kw + c] = circulation(r, c);
   }
 
   const Kernels kernels = KernelsFor(ground);
   constexpr std::size_t kBlock = 16;
+  static_assert((3 * kBlock) % kProductRows == 0, "the product takes whole groups of rows");
   const std::size_t nt = plan.targets.size();
   const auto nblocks = static_cast<std::ptrdiff_t>((nt + kBlock - 1) / kBlock);
   using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
 #pragma omp parallel
   {
-    RowMatrix rows(static_cast<Eigen::Index>(3 * kBlock), nsi);
-    Eigen::MatrixXd x(static_cast<Eigen::Index>(3 * kBlock), k), y(static_cast<Eigen::Index>(3 * kBlock), k);
+    // Zeroed once: a last, short block's product also reads the rows past its own (their results unused).
+    RowMatrix rows = RowMatrix::Zero(static_cast<Eigen::Index>(3 * kBlock), static_cast<Eigen::Index>(ns));
+    std::vector<double> x(3 * kBlock * kw, 0.0), y(3 * kBlock * kw, 0.0);
 #pragma omp for schedule(dynamic, 1)
     for (std::ptrdiff_t blk = 0; blk < nblocks; ++blk) {
       const std::size_t first = static_cast<std::size_t>(blk) * kBlock;
@@ -641,31 +746,35 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
           kernels.row(table, table_ground, 0, ns, points.x[p], points.y[p], points.z[p], ru, rv, rw);
         }
       }
-      // Sequential inside the thread, sizes fixed by the block: the same sums whatever the thread count.
+      const std::size_t nrows = (3 * count + kProductRows - 1) / kProductRows * kProductRows;
       if (plan.mirrored) {
-        x.topRows(3 * c).noalias() = rows.topRows(3 * c).leftCols(given) * g_sum;
-        y.topRows(3 * c).noalias() = rows.topRows(3 * c).rightCols(nsi - given) * g_rest;
+        kernels.product(rows.data(), ns, nrows, g_first.data(), given, kw, x.data());
+        kernels.product(rows.data() + given, ns, nrows, g_second.data(), ns - given, kw, y.data());
       } else {
-        y.topRows(3 * c).noalias() = rows.topRows(3 * c) * g_ordered;
+        kernels.product(rows.data(), ns, nrows, g_first.data(), ns, kw, y.data());
       }
       for (std::size_t q = 0; q < count; ++q) {
         const auto [p, m] = plan.targets[first + q];
-        const auto qi = static_cast<Eigen::Index>(q);
         const auto pi = static_cast<Eigen::Index>(p);
-        if (!plan.mirrored) {
-          out.u.row(pi) = y.row(qi);
-          out.v.row(pi) = y.row(c + qi);
-          out.w.row(pi) = y.row(2 * c + qi);
-          continue;
+        const double *xu = x.data() + q * kw, *xv = xu + count * kw, *xw = xv + count * kw;
+        const double *yu = y.data() + q * kw, *yv = yu + count * kw, *yw = yv + count * kw;
+        for (Eigen::Index col = 0; col < k; ++col) {
+          const auto cc = static_cast<std::size_t>(col);
+          if (!plan.mirrored) {
+            out.u(pi, col) = yu[cc];
+            out.v(pi, col) = yv[cc];
+            out.w(pi, col) = yw[cc];
+            continue;
+          }
+          out.u(pi, col) = xu[cc] + yu[cc];
+          out.v(pi, col) = xv[cc] + yv[cc];
+          out.w(pi, col) = xw[cc] + yw[cc];
+          if (m < 0) continue;
+          const auto mi = static_cast<Eigen::Index>(m);
+          out.u(mi, col) = xu[cc] - yu[cc];
+          out.v(mi, col) = yv[cc] - xv[cc];
+          out.w(mi, col) = xw[cc] - yw[cc];
         }
-        out.u.row(pi) = x.row(qi) + y.row(qi);
-        out.v.row(pi) = x.row(c + qi) + y.row(c + qi);
-        out.w.row(pi) = x.row(2 * c + qi) + y.row(2 * c + qi);
-        if (m < 0) continue;
-        const auto mi = static_cast<Eigen::Index>(m);
-        out.u.row(mi) = x.row(qi) - y.row(qi);
-        out.v.row(mi) = y.row(c + qi) - x.row(c + qi);
-        out.w.row(mi) = x.row(2 * c + qi) - y.row(2 * c + qi);
       }
     }
   }

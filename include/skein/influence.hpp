@@ -66,4 +66,15 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
 /// round-off, the work about half.
 bool InducedVelocityUsesMirror(const Lattice& lat, const PointArray& points, const WakeGeometry& wake);
 
+/// Instruction sets the assembly and velocity kernels are compiled for (x86-64 with GCC or Clang; elsewhere
+/// only the baseline). The fastest one the processor has is used.
+enum class KernelIsa { baseline, avx2, avx512 };
+/// The instruction set the kernels run on now.
+KernelIsa KernelIsaInUse();
+/// Caps the instruction set at `cap` (never above what the processor has) for every later call, so that tests
+/// and benchmarks can run each compiled path on one machine. Returns the set now in use.
+KernelIsa CapKernelIsa(KernelIsa cap);
+/// "baseline", "avx2" or "avx512".
+const char* KernelIsaName(KernelIsa isa);
+
 }  // namespace skein

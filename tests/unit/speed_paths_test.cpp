@@ -375,6 +375,23 @@ auto OnThreads(int threads, F f) {
   return r;
 }
 
+TEST(SpeedPaths, EveryCompiledInstructionSetMatchesTheReference) {
+  // The processor runs the fastest set it has; capping it runs the others (those it has) on this machine.
+  struct Restore {
+    ~Restore() { CapKernelIsa(KernelIsa::avx512); }
+  } restore;
+  const Lattice lat = BuildLattice(CaseOf({Wing(5, 12), Fin(4, 6)}));
+  for (KernelIsa isa : {KernelIsa::baseline, KernelIsa::avx2, KernelIsa::avx512}) {
+    const KernelIsa used = CapKernelIsa(isa);
+    EXPECT_LE(static_cast<int>(used), static_cast<int>(isa));
+    const std::string name = KernelIsaName(used);
+    ExpectAssemblyMatches(lat, XAxisWake(), true, 2, "wing and fin, " + name);
+    ExpectAssemblyMatches(lat, SideslipWake(), true, 1, "wing and fin, sideslipping wake, " + name);
+    ExpectVelocityMatches(lat, BoundMidpoints(lat), XAxisWake(true), "bound midpoints, ground plane, " + name);
+    ExpectVelocityMatches(lat, ScatteredPoints(29), SideslipWake(), "scattered points, " + name);
+  }
+}
+
 TEST(SpeedPaths, AssemblyIsBitIdenticalOnOneAndTwoThreads) {
   const Lattice lat = BuildLattice(CaseOf({Wing(6, 20), Fin(4, 6)}));
   for (const WakeGeometry& wake : {XAxisWake(), XAxisWake(true), SideslipWake()}) {
