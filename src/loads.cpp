@@ -126,8 +126,7 @@ std::array<double, kBasisSize> FlowParameters(const FlightPoint& fp) {
           -fp.rates[0] / v, fp.rates[1] / v, -fp.rates[2] / v};
 }
 
-std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& strip_gamma,
-                                const WakeGeometry& wake) {
+Eigen::MatrixXd TrefftzKernel(const Lattice& lat, const WakeGeometry& wake) {
   const std::size_t ns = lat.strips.size();
   const double d[3] = {wake.direction[0], wake.direction[1], wake.direction[2]};
   std::vector<double> ta(3 * ns), tb(3 * ns), eps4(ns);
@@ -139,7 +138,7 @@ std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& s
     const double eps = kCoreFraction * Norm(lat.strips[m].te_right - lat.strips[m].te_left);
     eps4[m] = eps * eps * eps * eps;
   }
-  std::vector<double> drag(ns, 0.0);
+  Eigen::MatrixXd kernel(static_cast<Eigen::Index>(ns), static_cast<Eigen::Index>(ns));
   const double h2 = 2.0 * wake.ground.height_z;
   const Vec3& dir = wake.direction;
   auto across = [&](const Vec3& r) { return r - Dot(r, dir) * dir; };  // projection on the Trefftz plane
@@ -147,9 +146,9 @@ std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& s
     const Vec3 a = lat.strips[m].te_left, b = lat.strips[m].te_right;
     const Vec3 p = 0.5 * (a + b);
     const double coincident = kCoreFraction * Norm(across(b - a));
-    double u = 0.0, v = 0.0, w = 0.0, flux = 0.0;
+    const Vec3 n = Cross(wake.direction, b - a);
     for (std::size_t j = 0; j < ns; ++j) {
-      double uj = 0.0, vj = 0.0, wj = 0.0;
+      double uj = 0.0, vj = 0.0, wj = 0.0, flux = 0.0;
       if (lat.strips[j].surface == lat.strips[m].surface) {
         // The surface's own wake: the midpoint rule, the velocity at the segment's midpoint times its length.
         AddTrefftzPairVelocity(p[0], p[1], p[2], &ta[3 * j], &tb[3 * j], d, eps4[j], uj, vj, wj);
@@ -175,20 +174,30 @@ std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& s
         for (int k = 0; k < (wake.ground.enabled ? 4 : 2); ++k) {
           const double ra = Norm(across(a - legs[k].q)), rb = Norm(across(b - legs[k].q));
           if (std::min(ra, rb) > coincident) {
-            flux += strip_gamma[j] * legs[k].sense * 2.0 * kInv4Pi * std::log(rb / ra);
+            flux += legs[k].sense * 2.0 * kInv4Pi * std::log(rb / ra);
           } else {
             AddTrefftzLegVelocity(p, legs[k].q, dir, eps4[j], legs[k].sense, uj, vj, wj);
           }
         }
       }
-      u += strip_gamma[j] * uj;
-      v += strip_gamma[j] * vj;
-      w += strip_gamma[j] * wj;
+      kernel(static_cast<Eigen::Index>(m), static_cast<Eigen::Index>(j)) = uj * n[0] + vj * n[1] + wj * n[2] + flux;
     }
-    const Vec3 n = Cross(wake.direction, b - a);
-    drag[m] = -0.5 * strip_gamma[m] * (u * n[0] + v * n[1] + w * n[2] + flux);
   }
+  return kernel;
+}
+
+std::vector<double> TrefftzDrag(const Eigen::MatrixXd& kernel, const std::vector<double>& strip_gamma) {
+  const auto ns = static_cast<Eigen::Index>(strip_gamma.size());
+  SKEIN_ASSERT(kernel.rows() == ns && kernel.cols() == ns);
+  const Eigen::VectorXd kg = kernel * Eigen::Map<const Eigen::VectorXd>(strip_gamma.data(), ns);
+  std::vector<double> drag(strip_gamma.size());
+  for (Eigen::Index m = 0; m < ns; ++m) drag[static_cast<std::size_t>(m)] = -0.5 * strip_gamma[static_cast<std::size_t>(m)] * kg(m);
   return drag;
+}
+
+std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& strip_gamma,
+                                const WakeGeometry& wake) {
+  return TrefftzDrag(TrefftzKernel(lat, wake), strip_gamma);
 }
 
 PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSolution& basis,
@@ -259,7 +268,11 @@ PointResult ComputeLoads(const Lattice& lat, const Reference& ref, const BasisSo
   const double qs = 0.5 * ref.area;
 
   // Trefftz-plane drag, per strip, and its share per surface.
-  const std::vector<double> strip_drag = TrefftzDrag(lat, strip_gamma, basis.wake);
+  // The kernel depends only on the geometry and the wake: SolveBasis computes it once for all the points.
+  const bool have_kernel = basis.trefftz_kernel.rows() == static_cast<Eigen::Index>(lat.strips.size()) &&
+                           basis.trefftz_kernel.cols() == basis.trefftz_kernel.rows();
+  const std::vector<double> strip_drag = have_kernel ? TrefftzDrag(basis.trefftz_kernel, strip_gamma)
+                                                     : TrefftzDrag(lat, strip_gamma, basis.wake);
   double cdi = 0.0;
   for (double dm : strip_drag) cdi += dm / qs;
 

@@ -1,20 +1,35 @@
 // Skein stage 4, solve. See solver.hpp.
-// Factorise with the machine's LAPACK (OpenBLAS dgetrf) through Eigen's LAPACKE backend when the build has it
-// (SKEIN_USE_OPENBLAS); Eigen's own PartialPivLU otherwise. Only this file factorises, so only it sets this.
-#if defined(SKEIN_HAVE_LAPACKE)
-#define EIGEN_USE_LAPACKE
-#endif
+// Factorise and solve with the machine's LAPACK (OpenBLAS dgetrf, dgetrs and dgecon, through LAPACKE's _work
+// entry points, which skip LAPACKE's O(N^2) NaN scan: a NaN still reaches the reciprocal condition and is
+// reported as a singular system) when the build has it (SKEIN_USE_OPENBLAS); Eigen's own PartialPivLU
+// otherwise.
 #include "skein/solver.hpp"
 
 #include <chrono>
 #include <cmath>
+#include <cstdlib>
 #include <memory>
+#include <strings.h>
+#if defined(__linux__)
+#include <unistd.h>
+#endif
+#include <vector>
 
 #include <Eigen/LU>
 #include <fmt/format.h>
+#if defined(SKEIN_HAVE_LAPACKE)
+#include <lapacke.h>
+#endif
 
 #include "skein/loads.hpp"
 #include "vec3.hpp"
+
+// OpenBLAS's own entry points (weak: null with another BLAS, or none).
+extern "C" {
+char* openblas_get_corename(void) __attribute__((weak));
+void openblas_set_num_threads(int) __attribute__((weak));
+int openblas_get_num_threads(void) __attribute__((weak));
+}
 
 namespace skein {
 namespace {
@@ -24,6 +39,60 @@ double Since(Clock::time_point t0) { return std::chrono::duration<double>(Clock:
 
 }  // namespace
 
+ScopedBlasThreads::ScopedBlasThreads(int n) {
+  if (openblas_set_num_threads != nullptr && openblas_get_num_threads != nullptr) {
+    previous_ = openblas_get_num_threads();
+    if (previous_ != n) {
+      openblas_set_num_threads(n);
+    } else {
+      previous_ = 0;  // nothing to restore
+    }
+  }
+}
+ScopedBlasThreads::~ScopedBlasThreads() {
+  if (previous_ > 0) openblas_set_num_threads(previous_);
+}
+
+#if defined(SKEIN_HAVE_LAPACKE)
+struct InPlaceLu::Impl {
+  explicit Impl(Eigen::MatrixXd& a) : lu(a), ipiv(static_cast<std::size_t>(a.rows())) {
+    SKEIN_ASSERT(a.rows() == a.cols());
+    const auto n = static_cast<lapack_int>(a.rows());
+    if (n == 0) return;
+    // The 1-norm of A, for the condition estimate, before the factors overwrite it.
+    anorm = a.cwiseAbs().colwise().sum().maxCoeff();
+    info = LAPACKE_dgetrf_work(LAPACK_COL_MAJOR, n, n, a.data(), n, ipiv.data());
+  }
+  Eigen::MatrixXd& lu;
+  std::vector<lapack_int> ipiv;
+  double anorm = 0.0;
+  lapack_int info = 0;  ///< > 0: an exactly zero pivot
+};
+InPlaceLu::InPlaceLu(Eigen::MatrixXd& a) : impl_(std::make_unique<Impl>(a)) {}
+InPlaceLu::~InPlaceLu() = default;
+Eigen::MatrixXd InPlaceLu::Solve(const Eigen::MatrixXd& b) const {
+  SKEIN_ASSERT(b.rows() == impl_->lu.rows());
+  Eigen::MatrixXd x = b;
+  const auto n = static_cast<lapack_int>(impl_->lu.rows());
+  if (n == 0 || x.cols() == 0) return x;
+  const ScopedBlasThreads one(1);
+  LAPACKE_dgetrs_work(LAPACK_COL_MAJOR, 'N', n, static_cast<lapack_int>(x.cols()), impl_->lu.data(), n,
+                      impl_->ipiv.data(), x.data(), n);
+  return x;
+}
+double InPlaceLu::Rcond() const {
+  const auto n = static_cast<lapack_int>(impl_->lu.rows());
+  if (n == 0) return 1.0;
+  if (impl_->info != 0 || !(impl_->anorm > 0.0)) return 0.0;
+  std::vector<double> work(4 * static_cast<std::size_t>(n));
+  std::vector<lapack_int> iwork(static_cast<std::size_t>(n));
+  double rcond = 0.0;
+  const lapack_int info = LAPACKE_dgecon_work(LAPACK_COL_MAJOR, '1', n, impl_->lu.data(), n, impl_->anorm, &rcond,
+                                              work.data(), iwork.data());
+  return info == 0 ? rcond : 0.0;
+}
+const char* InPlaceLu::Backend() { return "OpenBLAS/LAPACKE"; }
+#else
 struct InPlaceLu::Impl {
   explicit Impl(Eigen::MatrixXd& a) : lu(a) {}
   Eigen::PartialPivLU<Eigen::Ref<Eigen::MatrixXd>> lu;
@@ -31,12 +100,51 @@ struct InPlaceLu::Impl {
 InPlaceLu::InPlaceLu(Eigen::MatrixXd& a) : impl_(std::make_unique<Impl>(a)) {}
 InPlaceLu::~InPlaceLu() = default;
 Eigen::MatrixXd InPlaceLu::Solve(const Eigen::MatrixXd& b) const { return impl_->lu.solve(b); }
-double InPlaceLu::Rcond() const { return impl_->lu.rcond(); }
-const char* InPlaceLu::Backend() {
+double InPlaceLu::Rcond() const {
+  const double r = impl_->lu.rcond();  // NaN after an exactly zero pivot
+  return r >= 0.0 ? r : 0.0;
+}
+const char* InPlaceLu::Backend() { return "Eigen"; }
+#endif
+
+
+const char* BetterBlasKernel() {
+#if defined(SKEIN_HAVE_LAPACKE) && defined(__x86_64__)
+  if (!openblas_get_corename || std::getenv("OPENBLAS_CORETYPE")) return nullptr;
+  const char* name = openblas_get_corename();
+  if (!name) return nullptr;
+  // OpenBLAS's x86-64 kernel families older than AVX2 (its names, compared without case).
+  static const char* const kGeneric[] = {"unknown",  "katmai",  "coppermine", "northwood", "prescott",
+                                         "banias",   "atom",    "core2",      "penryn",    "dunnington",
+                                         "nehalem",  "athlon",  "opteron",    "opteron_sse3", "barcelona",
+                                         "nano",     "sandybridge", "bobcat", "bulldozer", "piledriver"};
+  bool generic = false;
+  for (const char* g : kGeneric) generic = generic || strcasecmp(name, g) == 0;
+  if (!generic) return nullptr;
+  __builtin_cpu_init();
+  if (__builtin_cpu_supports("avx512f") && __builtin_cpu_supports("avx512cd") && __builtin_cpu_supports("avx512bw") &&
+      __builtin_cpu_supports("avx512dq") && __builtin_cpu_supports("avx512vl"))
+    return "SkylakeX";
+  if (__builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma")) return "Haswell";
+#endif
+  return nullptr;
+}
+
+const char* BlasKernelName() {
 #if defined(SKEIN_HAVE_LAPACKE)
-  return "OpenBLAS/LAPACKE";
+  if (openblas_get_corename && openblas_get_corename()) return openblas_get_corename();
+#endif
+  return "";
+}
+
+void RestartWithBetterBlasKernel(char** argv) {
+#if defined(__linux__)
+  const char* kernel = BetterBlasKernel();
+  if (!kernel || setenv("OPENBLAS_CORETYPE", kernel, 1) != 0) return;
+  execv("/proc/self/exe", argv);
+  unsetenv("OPENBLAS_CORETYPE");  // the restart failed: carry on with the kernel OpenBLAS chose
 #else
-  return "Eigen";
+  (void)argv;
 #endif
 }
 
@@ -276,6 +384,7 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   }
   out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, swake);
   out.bound_velocity.u /= beta;  // u = d(phi)/dx = (d(phi)/dx') / beta
+  out.trefftz_kernel = TrefftzKernel(physical, wake);  // in the physical axes, as ComputeLoads reads it
   out.seconds_velocity += Since(t0);
   return out;
 }

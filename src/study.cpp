@@ -21,12 +21,6 @@
 #include "skein/loads.hpp"
 #include "vec3.hpp"
 
-// OpenBLAS's thread count, where the library is linked (weak: absent with another BLAS, or none).
-extern "C" {
-void openblas_set_num_threads(int) __attribute__((weak));
-int openblas_get_num_threads(void) __attribute__((weak));
-}
-
 namespace skein::study {
 namespace {
 
@@ -173,25 +167,9 @@ ConvergenceStudy MeshConvergence(const Case& c, const ConvergenceOptions& option
 }
 
 Eigen::MatrixXd TrefftzDragMatrix(const Lattice& lat, const WakeGeometry& wake) {
-  // TrefftzDrag gives D_m = -(1/2) g_m (K g)_m, K the kernel matrix of the wake's pairs. With g = 1 + e_j
-  // (no zero entries), (K g)_m = -2 D_m / g_m, so K e_j = K (1 + e_j) - K 1: one call per column.
-  const auto ns = static_cast<Eigen::Index>(lat.strips.size());
-  auto k_times = [&](const std::vector<double>& g) {
-    const std::vector<double> d = TrefftzDrag(lat, g, wake);
-    Eigen::VectorXd kg(ns);
-    for (Eigen::Index m = 0; m < ns; ++m)
-      kg(m) = -2.0 * d[static_cast<std::size_t>(m)] / g[static_cast<std::size_t>(m)];
-    return kg;
-  };
-  const std::vector<double> ones(static_cast<std::size_t>(ns), 1.0);
-  const Eigen::VectorXd k1 = k_times(ones);
-  Eigen::MatrixXd K(ns, ns);
-  for (Eigen::Index j = 0; j < ns; ++j) {
-    std::vector<double> g = ones;
-    g[static_cast<std::size_t>(j)] = 2.0;
-    K.col(j) = k_times(g) - k1;
-  }
-  // D = -(1/2) g' K g = g' Q g with Q the symmetric part of -K/2.
+  // TrefftzDrag gives D_m = -(1/2) g_m (K g)_m with K = TrefftzKernel, so D = -(1/2) g' K g = g' Q g with Q the
+  // symmetric part of -K/2.
+  const Eigen::MatrixXd K = TrefftzKernel(lat, wake);
   return -0.25 * (K + K.transpose());
 }
 
@@ -525,24 +503,6 @@ PointAtLift SolveAtLift(const Case& c, double target_CL, const RunOptions& run) 
 
 namespace {
 
-/// Sets OpenBLAS's thread count for its lifetime and restores it after (a no-op without OpenBLAS).
-class BlasThreads {
- public:
-  explicit BlasThreads(int n) {
-    if (openblas_set_num_threads != nullptr && openblas_get_num_threads != nullptr) {
-      previous_ = openblas_get_num_threads();
-      openblas_set_num_threads(n);
-    }
-  }
-  ~BlasThreads() {
-    if (previous_ > 0) openblas_set_num_threads(previous_);
-  }
-  BlasThreads(const BlasThreads&) = delete;
-  BlasThreads& operator=(const BlasThreads&) = delete;
-
- private:
-  int previous_ = 0;
-};
 
 /// Calls solve(i, threads) for every i < n, the cases shared among threads as PlanThreads says. An exception
 /// is held in its case's place; the remaining cases after the first that failed are skipped, and the first
@@ -550,7 +510,7 @@ class BlasThreads {
 template <class Solve>
 ThreadPlan ForEachCase(std::size_t n, int total, Solve&& solve) {
   const ThreadPlan plan = PlanThreads(n, total);
-  const BlasThreads blas(plan.threads_per_case);
+  const ScopedBlasThreads blas(plan.threads_per_case);
   std::vector<std::exception_ptr> errors(n);
   std::atomic<std::size_t> next{0}, first_failed{n};
   const auto worker = [&]() {

@@ -42,6 +42,12 @@ std::array<double, kBasisSize> FlowParameters(const FlightPoint& fp);
 std::vector<double> TrefftzDrag(const Lattice& lat, const std::vector<double>& strip_gamma,
                                 const WakeGeometry& wake);
 
+/// The Trefftz-plane kernel K of the lattice's wake (strips x strips): D_m = -(1/2) Gamma_m (K Gamma)_m, the
+/// drag TrefftzDrag reports. It depends on the geometry and the wake only, so a sweep computes it once.
+Eigen::MatrixXd TrefftzKernel(const Lattice& lat, const WakeGeometry& wake);
+/// TrefftzDrag with a kernel from TrefftzKernel.
+std::vector<double> TrefftzDrag(const Eigen::MatrixXd& kernel, const std::vector<double>& strip_gamma);
+
 /// For each surface, the surfaces "ahead" of it whose downwash it reports (SurfaceLoads::downwash_deg): those
 /// whose area-weighted mean bound-vortex x is smaller (further forward). Indices into Lattice::surfaces.
 std::vector<std::vector<int>> SurfacesAhead(const Lattice& lat);

@@ -50,15 +50,19 @@ struct SolverOptions {
 
 /// LU factorisation with partial pivoting of a square matrix, in place: the matrix passed in is overwritten by
 /// its factors and must outlive this object (no second copy of it). The factorisation SolveBasis uses:
-/// OpenBLAS dgetrf through LAPACKE in a build with SKEIN_USE_OPENBLAS, Eigen's own PartialPivLU otherwise.
+/// OpenBLAS dgetrf (and dgetrs, dgecon) through LAPACKE in a build with SKEIN_USE_OPENBLAS, Eigen's own
+/// PartialPivLU otherwise.
 class InPlaceLu {
  public:
   explicit InPlaceLu(Eigen::MatrixXd& a);
   ~InPlaceLu();
   InPlaceLu(const InPlaceLu&) = delete;
   InPlaceLu& operator=(const InPlaceLu&) = delete;
+  /// A^-1 b. With OpenBLAS, on one of its threads: the bits then do not depend on the thread count (its
+  /// threaded triangular solves split the columns differently), and the few right-hand sides of a basis (six
+  /// per flow field and control) gain little from more.
   Eigen::MatrixXd Solve(const Eigen::MatrixXd& b) const;
-  double Rcond() const;  ///< reciprocal condition estimate in the 1-norm
+  double Rcond() const;  ///< reciprocal condition estimate in the 1-norm; 0 after an exactly zero pivot
   /// "OpenBLAS/LAPACKE" or "Eigen": what factorises in this build.
   static const char* Backend();
 
@@ -66,6 +70,34 @@ class InPlaceLu {
   struct Impl;
   std::unique_ptr<Impl> impl_;
 };
+
+/// Sets OpenBLAS's thread count for its lifetime and restores it after (a no-op without OpenBLAS).
+class ScopedBlasThreads {
+ public:
+  explicit ScopedBlasThreads(int n);
+  ~ScopedBlasThreads();
+  ScopedBlasThreads(const ScopedBlasThreads&) = delete;
+  ScopedBlasThreads& operator=(const ScopedBlasThreads&) = delete;
+
+ private:
+  int previous_ = 0;
+};
+
+/// OpenBLAS chooses its kernels from the processor's model number when it loads. Under some hypervisors the
+/// model is hidden and it falls back to a generic SSE3 kernel (measured on a 2-core Xeon guest: dgetrf at
+/// N = 4000 in 1.9 s instead of 0.5 s). When that happened and OPENBLAS_CORETYPE is not set, returns the
+/// kernel family the processor's instruction set supports ("SkylakeX" with AVX-512 F/CD/BW/DQ/VL, "Haswell"
+/// with AVX2 and FMA), for a program to restart itself with OPENBLAS_CORETYPE set before OpenBLAS loads;
+/// nullptr otherwise, and in a build without OpenBLAS.
+const char* BetterBlasKernel();
+/// The kernel family OpenBLAS runs ("SkylakeX", "Haswell", "Prescott", ...), or "" without OpenBLAS.
+const char* BlasKernelName();
+
+/// For a program's main, first thing: when BetterBlasKernel() names a kernel, sets OPENBLAS_CORETYPE to it
+/// and replaces the process by the same program with the same arguments (Linux: /proc/self/exe), so that
+/// OpenBLAS loads with it. Returns only when there is nothing to do or the restart failed (the program then
+/// runs on as it is). The variable, once set, stops a second restart.
+void RestartWithBetterBlasKernel(char** argv);
 
 /// Circulations of the flow basis on the full lattice, and the velocities they induce at the bound-vortex
 /// midpoints (what the Kutta-Joukowski loads need).
@@ -77,6 +109,8 @@ struct BasisSolution {
   /// the derivative of the basis circulations with respect to that control's deflection, per radian).
   Eigen::MatrixXd gamma;  ///< panels x columns
   InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
+  /// The Trefftz-plane kernel of the wake (TrefftzKernel, loads.hpp), strips x strips; empty when not solved.
+  Eigen::MatrixXd trefftz_kernel;
   /// Velocity induced at the control points by each surface alone, for the six basis columns: column
   /// 6 s + k holds surface s's share of basis field k (panels x 6 surfaces). Empty for a single surface
   /// without controls. The downwash a surface sees from the others is a sum of these blocks. Computed only

@@ -108,7 +108,7 @@ ConvergenceStudy MeshConvergence(const Case& c, const ConvergenceOptions& option
 // The Trefftz plane as a quadratic form
 
 /// Induced drag as a quadratic form of the strip circulations: D = g' Q g (V = rho = 1), Q symmetric, built
-/// from TrefftzDrag (loads.hpp), so it agrees with the drag every solve reports, ground images included.
+/// from TrefftzKernel (loads.hpp), as TrefftzDrag is, so it agrees with the drag every solve reports, ground images included.
 Eigen::MatrixXd TrefftzDragMatrix(const Lattice& lat, const WakeGeometry& wake);
 
 /// Lift (along l = (-sin alpha, 0, cos alpha)) of the strip circulations in the Trefftz plane, per unit g:

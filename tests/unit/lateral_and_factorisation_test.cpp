@@ -5,6 +5,7 @@
 // (coefficients are of order one; common practice for round-off checks). They never look at times.
 #include <algorithm>
 #include <cmath>
+#include <cstdlib>
 #include <string>
 #include <vector>
 
@@ -239,6 +240,52 @@ TEST(Factorisation, SolverLuAgreesWithEigensOwnLu) {
   EXPECT_LE(lu.Rcond(), 1.0);
   // In place: the matrix passed in now holds the factors, not the matrix.
   EXPECT_GT((work - a).cwiseAbs().maxCoeff(), 0.0);
+}
+
+TEST(Factorisation, ConditionEstimateBracketsTheExactReciprocalCondition) {
+  // The 1-norm estimator (Hager's method as refined by Higham; N. J. Higham, "Accuracy and Stability of
+  // Numerical Algorithms", 2nd ed., SIAM 2002, section 15.3) finds a lower bound of ||A^-1||_1, so its
+  // reciprocal condition is at least the exact 1/(||A||_1 ||A^-1||_1), and in practice within a factor of a few
+  // (there: rarely more than 3). The exact value here comes from the explicit inverse.
+  const Case c = Aircraft(true, true);
+  const Lattice lat = BuildLattice(c);
+  const WakeGeometry wake = WakeFor(c, 0.0, 0.0);
+  const Eigen::MatrixXd a = AssembleInfluence(lat, ChooseLayouts(lat, wake, false), wake).front();
+  const double exact = 1.0 / (a.cwiseAbs().colwise().sum().maxCoeff() *
+                              a.inverse().cwiseAbs().colwise().sum().maxCoeff());
+  Eigen::MatrixXd work = a;
+  const InPlaceLu lu(work);
+  EXPECT_GE(lu.Rcond(), exact * (1.0 - 1e-9)) << InPlaceLu::Backend();
+  EXPECT_LE(lu.Rcond(), 10.0 * exact) << InPlaceLu::Backend();
+}
+
+TEST(Factorisation, ExactlySingularMatrixHasZeroReciprocalCondition) {
+  Eigen::MatrixXd a = Eigen::MatrixXd::Identity(5, 5);
+  a.row(3) = a.row(1);  // two equal rows: an exactly zero pivot
+  const InPlaceLu lu(a);
+  EXPECT_EQ(lu.Rcond(), 0.0) << InPlaceLu::Backend();
+}
+
+TEST(Factorisation, BlasKernelRestartIsOfferedOnlyWhenItWouldHelp) {
+  // OPENBLAS_CORETYPE set (by the user or by a restart) stops any further restart.
+  const char* saved = std::getenv("OPENBLAS_CORETYPE");
+  const std::string before = saved ? saved : "";
+  setenv("OPENBLAS_CORETYPE", "Haswell", 1);
+  EXPECT_EQ(BetterBlasKernel(), nullptr);
+  if (saved) {
+    setenv("OPENBLAS_CORETYPE", before.c_str(), 1);
+  } else {
+    unsetenv("OPENBLAS_CORETYPE");
+  }
+  // Otherwise only an AVX2 or AVX-512 family, and only when OpenBLAS runs a generic one.
+  if (const char* k = BetterBlasKernel()) {
+    EXPECT_TRUE(std::string(k) == "SkylakeX" || std::string(k) == "Haswell") << k;
+    const std::string now = BlasKernelName();
+    EXPECT_TRUE(now != "Haswell" && now != "SkylakeX" && now != "Zen") << now;
+  }
+  if (std::string(InPlaceLu::Backend()) == "OpenBLAS/LAPACKE") {
+    EXPECT_STRNE(BlasKernelName(), "");
+  }
 }
 
 // ---- the plan ------------------------------------------------------------------------------------------------

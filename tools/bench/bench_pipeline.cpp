@@ -449,6 +449,7 @@ void PrintRow(const std::string& what, const Ratio& r, const std::string& target
 }  // namespace
 
 int main(int argc, char** argv) {
+  skein::RestartWithBetterBlasKernel(argv);  // as the CLI does: the reference dgetrf runs the same kernel
   if (argc == 3 && std::string(argv[1]) == "--child") return Child(argv[2]);
   bool memory = true;  // --skip-memory: no child processes (a quick look at one benchmark)
   for (int i = 1; i < argc; ++i)
@@ -458,9 +459,22 @@ int main(int argc, char** argv) {
       --argc;
       break;
     }
+  // --isa=baseline|avx2|avx512: cap the kernels' instruction set (to compare the compiled paths).
+  for (int i = 1; i < argc; ++i) {
+    const std::string arg = argv[i];
+    if (arg.rfind("--isa=", 0) != 0) continue;
+    const std::string isa = arg.substr(6);
+    skein::CapKernelIsa(isa == "baseline" ? skein::KernelIsa::baseline
+                        : isa == "avx2"   ? skein::KernelIsa::avx2
+                                          : skein::KernelIsa::avx512);
+    for (int k = i; k + 1 < argc; ++k) argv[k] = argv[k + 1];
+    --argc;
+    break;
+  }
   const std::string load_before = Load();
-  std::printf("skein_bench: factorisation by %s; %d OpenMP threads; OPENBLAS_NUM_THREADS=%s; load average %s\n",
-              skein::InPlaceLu::Backend(), omp_get_max_threads(),
+  std::printf("skein_bench: factorisation by %s (OpenBLAS kernel %s); assembly kernels %s; %d OpenMP threads; OPENBLAS_NUM_THREADS=%s; load average %s\n",
+              skein::InPlaceLu::Backend(), skein::BlasKernelName(),
+              skein::KernelIsaName(skein::KernelIsaInUse()), omp_get_max_threads(),
               std::getenv("OPENBLAS_NUM_THREADS") ? std::getenv("OPENBLAS_NUM_THREADS") : "(unset: all cores)",
               load_before.c_str());
   std::fflush(stdout);
