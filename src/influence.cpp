@@ -111,22 +111,26 @@ struct Shoe {
   double eps4;
 };
 
+/// |P - T|, never below kTiny.
+SKEIN_ALWAYS_INLINE double DistanceTo(double px, double py, double pz, double tx, double ty, double tz) {
+  const double x = px - tx, y = py - ty, z = pz - tz;
+  return std::max(std::sqrt(x * x + y * y + z * z), kTiny);
+}
+
 /// Velocity at P of a unit horseshoe given by scalars (the same legs, in the same order, as
-/// AddHorseshoeVelocity). Adds to (u, v, w). The five denominators take two divisions, in groups of three and
-/// two (see the file comment).
+/// AddHorseshoeVelocity), with nq = |P - TA| and ns = |P - TB| given (DistanceTo). Adds to (u, v, w). The
+/// five denominators take two divisions, in groups of three and two (see the file comment).
 SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
                                       double ax, double ay, double az, double bx, double by, double bz,
                                       double tbx, double tby, double tbz, double e0, double e1, double e2,
-                                      double eps4, double dx, double dy, double dz, double& u, double& v,
-                                      double& w) {
+                                      double eps4, double dx, double dy, double dz, double nq, double ns,
+                                      double& u, double& v, double& w) {
   const double qx = px - tax, qy = py - tay, qz = pz - taz;
   const double r1x = px - ax, r1y = py - ay, r1z = pz - az;
   const double r2x = px - bx, r2y = py - by, r2z = pz - bz;
   const double sx = px - tbx, sy = py - tby, sz = pz - tbz;
-  const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
   const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
   const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
-  const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
   const Term t0 = SemiInfiniteTerm(qx, qy, qz, nq, dx, dy, dz, eps4, -1.0);
   const Term t1 = SegmentTerm(qx, qy, qz, nq, r1x, r1y, r1z, n1, ax - tax, ay - tay, az - taz, e0);
   const Term t2 = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, bx - ax, by - ay, bz - az, e1);
@@ -142,10 +146,21 @@ SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double ta
   AddTerm(t4, inv_a * t0.den * t1.den, u, v, w);
 }
 
-SKEIN_ALWAYS_INLINE void ShoeVelocity(const Shoe& s, double px, double py, double pz, double& u, double& v,
+/// The same, computing |P - TA| and |P - TB| itself.
+SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
+                                      double ax, double ay, double az, double bx, double by, double bz,
+                                      double tbx, double tby, double tbz, double e0, double e1, double e2,
+                                      double eps4, double dx, double dy, double dz, double& u, double& v,
                                       double& w) {
+  ShoeVelocity(px, py, pz, tax, tay, taz, ax, ay, az, bx, by, bz, tbx, tby, tbz, e0, e1, e2, eps4, dx, dy, dz,
+               DistanceTo(px, py, pz, tax, tay, taz), DistanceTo(px, py, pz, tbx, tby, tbz), u, v, w);
+}
+
+/// Shoe s at P with |P - TA| = nq and |P - TB| = ns given.
+SKEIN_ALWAYS_INLINE void ShoeVelocity(const Shoe& s, double px, double py, double pz, double nq, double ns,
+                                      double& u, double& v, double& w) {
   ShoeVelocity(px, py, pz, s.ta[0], s.ta[1], s.ta[2], s.a[0], s.a[1], s.a[2], s.b[0], s.b[1], s.b[2], s.tb[0],
-               s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4, s.d[0], s.d[1], s.d[2], u, v, w);
+               s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4, s.d[0], s.d[1], s.d[2], nq, ns, u, v, w);
 }
 
 double SegmentConstant(const double* p, const double* q, double eps4) {
@@ -197,36 +212,52 @@ struct TargetArrays {
   std::size_t n;
 };
 
-/// Column of a single system: out[i] = n_i . v(P_i) of the source (and its ground image).
+/// |P_i - TA| and |P_i - TB| of a horseshoe at every target: what every horseshoe of a strip (the same
+/// trailing-edge points) shares, computed once for all of them.
+struct Norms {
+  const double *ta, *tb;
+};
+SKEIN_ALWAYS_INLINE void NormsImpl(const TargetArrays& t, const Shoe& src, double* ta, double* tb) {
+  const Shoe s = src;
+  const double *px = t.px, *py = t.py, *pz = t.pz;
+#pragma omp simd
+  for (std::size_t i = 0; i < t.n; ++i) {
+    ta[i] = DistanceTo(px[i], py[i], pz[i], s.ta[0], s.ta[1], s.ta[2]);
+    tb[i] = DistanceTo(px[i], py[i], pz[i], s.tb[0], s.tb[1], s.tb[2]);
+  }
+}
+
+/// Column of a single system: out[i] = n_i . v(P_i) of the source (and its ground image), with their Norms.
 template <bool kGround>
 SKEIN_ALWAYS_INLINE void DirectColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
-                                          double* out) {
+                                          Norms ns, Norms ng, double* out) {
   const Shoe s = src, g = src_ground;
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
 #pragma omp simd
   for (std::size_t i = 0; i < t.n; ++i) {
     double u = 0.0, v = 0.0, w = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(g, px[i], py[i], pz[i], u, v, w);
+    ShoeVelocity(s, px[i], py[i], pz[i], ns.ta[i], ns.tb[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(g, px[i], py[i], pz[i], ng.ta[i], ng.tb[i], u, v, w);
     out[i] = u * nx[i] + v * ny[i] + w * nz[i];
   }
 }
 
 /// Columns of the symmetric/antisymmetric pair: anti[i] = direct - image for every target, sym[i] =
-/// direct + image for the first n_sym.
+/// direct + image for the first n_sym. nn[0..3]: the Norms of src, src_ground, img, img_ground.
 template <bool kGround>
 SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
-                                        const Shoe& img, const Shoe& img_ground, std::size_t n_sym, double* anti,
-                                        double* sym) {
+                                        const Shoe& img, const Shoe& img_ground, const Norms* nn,
+                                        std::size_t n_sym, double* anti, double* sym) {
   const Shoe s = src, sg = src_ground, m = img, mg = img_ground;
+  const Norms a = nn[0], ag = nn[1], b = nn[2], bg = nn[3];
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
 #pragma omp simd
   for (std::size_t i = 0; i < n_sym; ++i) {
     double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], u, v, w);
-    ShoeVelocity(m, px[i], py[i], pz[i], ui, vi, wi);
-    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], ui, vi, wi);
+    ShoeVelocity(s, px[i], py[i], pz[i], a.ta[i], a.tb[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], ag.ta[i], ag.tb[i], u, v, w);
+    ShoeVelocity(m, px[i], py[i], pz[i], b.ta[i], b.tb[i], ui, vi, wi);
+    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], bg.ta[i], bg.tb[i], ui, vi, wi);
     const double direct = u * nx[i] + v * ny[i] + w * nz[i];
     const double image = ui * nx[i] + vi * ny[i] + wi * nz[i];
     anti[i] = direct - image;
@@ -235,10 +266,10 @@ SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Shoe& src, 
 #pragma omp simd
   for (std::size_t i = n_sym; i < t.n; ++i) {
     double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], u, v, w);
-    ShoeVelocity(m, px[i], py[i], pz[i], ui, vi, wi);
-    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], ui, vi, wi);
+    ShoeVelocity(s, px[i], py[i], pz[i], a.ta[i], a.tb[i], u, v, w);
+    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], ag.ta[i], ag.tb[i], u, v, w);
+    ShoeVelocity(m, px[i], py[i], pz[i], b.ta[i], b.tb[i], ui, vi, wi);
+    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], bg.ta[i], bg.tb[i], ui, vi, wi);
     anti[i] = (u * nx[i] + v * ny[i] + w * nz[i]) - (ui * nx[i] + vi * ny[i] + wi * nz[i]);
   }
 }
@@ -371,14 +402,18 @@ SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size
                           std::size_t kw, double* y) {                                                        \
     ProductImpl(r, ldr, rows, g, n, kw, y);                                                                   \
   }                                                                                                           \
+  ATTR void Norms##Name(const TargetArrays& t, const Shoe& s, double* ta, double* tb) {                      \
+    NormsImpl(t, s, ta, tb);                                                                                  \
+  }                                                                                                           \
   template <bool kGround>                                                                                     \
-  ATTR void DirectColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& g, double* out) {            \
-    DirectColumnImpl<kGround>(t, s, g, out);                                                                  \
+  ATTR void DirectColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& g, Norms ns, Norms ng,       \
+                               double* out) {                                                                 \
+    DirectColumnImpl<kGround>(t, s, g, ns, ng, out);                                                          \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
   ATTR void PairColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m,             \
-                             const Shoe& mg, std::size_t n_sym, double* anti, double* sym) {                  \
-    PairColumnImpl<kGround>(t, s, sg, m, mg, n_sym, anti, sym);                                               \
+                             const Shoe& mg, const Norms* nn, std::size_t n_sym, double* anti, double* sym) { \
+    PairColumnImpl<kGround>(t, s, sg, m, mg, nn, n_sym, anti, sym);                                           \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
   ATTR void KernelRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,      \
@@ -421,9 +456,10 @@ std::atomic<int>& IsaCap() {
 
 /// The kernel entry points for this processor and ground setting.
 struct Kernels {
-  void (*direct)(const TargetArrays&, const Shoe&, const Shoe&, double*);
-  void (*pair)(const TargetArrays&, const Shoe&, const Shoe&, const Shoe&, const Shoe&, std::size_t, double*,
-               double*);
+  void (*norms)(const TargetArrays&, const Shoe&, double*, double*);
+  void (*direct)(const TargetArrays&, const Shoe&, const Shoe&, Norms, Norms, double*);
+  void (*pair)(const TargetArrays&, const Shoe&, const Shoe&, const Shoe&, const Shoe&, const Norms*, std::size_t,
+               double*, double*);
   void (*row)(const ShoeTable&, const ShoeTable&, std::size_t, std::size_t, double, double, double, double*,
               double*, double*);
   void (*paired)(const ShoeTable&, const ShoeTable&, std::size_t, double, double, double, double*, double*,
@@ -435,13 +471,13 @@ template <bool kGround>
 Kernels KernelsFor() {
 #if defined(SKEIN_AVX2_CLONE)
   if (KernelIsaInUse() == KernelIsa::avx512)
-    return {&DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
+    return {&NormsAvx512, &DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
             &PairedRowAvx512<kGround>, &ProductAvx512};
   if (KernelIsaInUse() == KernelIsa::avx2)
-    return {&DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
+    return {&NormsAvx2, &DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
             &PairedRowAvx2<kGround>, &ProductAvx2};
 #endif
-  return {&DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
+  return {&NormsBase, &DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
           &ProductBase};
 }
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
@@ -619,27 +655,66 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
   const bool split = layouts.size() == 2 || sym_only;
   const bool ground = wake.ground.enabled;
   const Kernels kernels = KernelsFor(ground);
-  const auto ni = static_cast<std::ptrdiff_t>(n);
+  // Runs of columns whose horseshoes (and images) share their trailing-edge points, bit for bit: a strip's
+  // chordwise panels. Their distances to the targets (two of each horseshoe's four square roots) are computed
+  // once per run. A column's arithmetic is the same whichever run or thread it falls in.
+  const auto same_te = [](const Shoe& x, const Shoe& y) {
+    for (int k = 0; k < 3; ++k)
+      if (!Exactly(x.ta[k], y.ta[k]) || !Exactly(x.tb[k], y.tb[k])) return false;
+    return true;
+  };
+  std::vector<std::size_t> run_start;
+  for (std::size_t j = 0; j < n; ++j) {
+    const bool has_image = split && wide.image[j] >= 0;
+    bool joins = j > 0 && has_image == (split && wide.image[j - 1] >= 0) &&
+                 same_te(LoadShoe(lat, wide.panel[j], wake), LoadShoe(lat, wide.panel[j - 1], wake));
+    if (joins && has_image)
+      joins = same_te(LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake),
+                      LoadShoe(lat, static_cast<std::size_t>(wide.image[j - 1]), wake));
+    if (!joins) run_start.push_back(j);
+  }
+  run_start.push_back(n);
+  const auto nruns = static_cast<std::ptrdiff_t>(run_start.size() - 1);
 #pragma omp parallel
   {
     std::vector<double> scratch(sym_only ? n : 0);
-#pragma omp for schedule(static)
-    for (std::ptrdiff_t jj = 0; jj < ni; ++jj) {
-      const auto j = static_cast<std::size_t>(jj);
-      const Shoe src = LoadShoe(lat, wide.panel[j], wake);
-      const Shoe src_ground = ground ? GroundImage(src, wake) : src;
-      const bool has_image = wide.image[j] >= 0;
-      double* col_wide = sym_only ? scratch.data() : mats.back().col(jj).data();
-      double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
-      if (!split || !has_image) {
-        // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
-        kernels.direct(targets, src, src_ground, col_wide);
-        if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
-        continue;
+    std::vector<double> distances(8 * n);  // |P - TA|, |P - TB| of source, its ground image, image, its ground image
+    double* dist[8];
+    Norms nn[4];
+    for (std::size_t k = 0; k < 8; ++k) dist[k] = distances.data() + k * n;
+    for (std::size_t k = 0; k < 4; ++k) nn[k] = {dist[2 * k], dist[2 * k + 1]};
+#pragma omp for schedule(dynamic, 1)
+    for (std::ptrdiff_t run = 0; run < nruns; ++run) {
+      const auto r = static_cast<std::size_t>(run);
+      for (std::size_t j = run_start[r]; j < run_start[r + 1]; ++j) {
+        const auto jj = static_cast<Eigen::Index>(j);
+        const Shoe src = LoadShoe(lat, wide.panel[j], wake);
+        const Shoe src_ground = ground ? GroundImage(src, wake) : src;
+        const bool has_image = wide.image[j] >= 0;
+        double* col_wide = sym_only ? scratch.data() : mats.back().col(jj).data();
+        double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
+        if (!split || !has_image) {
+          // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
+          if (j == run_start[r]) {
+            kernels.norms(targets, src, dist[0], dist[1]);
+            if (ground) kernels.norms(targets, src_ground, dist[2], dist[3]);
+          }
+          kernels.direct(targets, src, src_ground, nn[0], nn[1], col_wide);
+          if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
+          continue;
+        }
+        const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
+        const Shoe img_ground = ground ? GroundImage(img, wake) : img;
+        if (j == run_start[r]) {
+          kernels.norms(targets, src, dist[0], dist[1]);
+          kernels.norms(targets, img, dist[4], dist[5]);
+          if (ground) {
+            kernels.norms(targets, src_ground, dist[2], dist[3]);
+            kernels.norms(targets, img_ground, dist[6], dist[7]);
+          }
+        }
+        kernels.pair(targets, src, src_ground, img, img_ground, nn, col_sym ? n_sym : 0, col_wide, col_sym);
       }
-      const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
-      const Shoe img_ground = ground ? GroundImage(img, wake) : img;
-      kernels.pair(targets, src, src_ground, img, img_ground, col_sym ? n_sym : 0, col_wide, col_sym);
     }
   }
   return mats;
