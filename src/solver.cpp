@@ -137,12 +137,22 @@ const char* BlasKernelName() {
   return "";
 }
 
-void RestartWithBetterBlasKernel(char** argv) {
+std::vector<std::pair<std::string, std::string>> BlasRestartSettings() {
+  std::vector<std::pair<std::string, std::string>> out;
+  if (const char* kernel = BetterBlasKernel()) out.emplace_back("OPENBLAS_CORETYPE", kernel);
+  if (openblas_get_num_threads != nullptr && openblas_get_num_threads() > 1 &&
+      !std::getenv("OPENBLAS_THREAD_TIMEOUT"))
+    out.emplace_back("OPENBLAS_THREAD_TIMEOUT", "4");
+  return out;
+}
+
+void RestartWithBlasSettings(char** argv) {
 #if defined(__linux__)
-  const char* kernel = BetterBlasKernel();
-  if (!kernel || setenv("OPENBLAS_CORETYPE", kernel, 1) != 0) return;
+  const auto settings = BlasRestartSettings();
+  if (settings.empty()) return;
+  for (const auto& [name, value] : settings) setenv(name.c_str(), value.c_str(), 1);
   execv("/proc/self/exe", argv);
-  unsetenv("OPENBLAS_CORETYPE");  // the restart failed: carry on with the kernel OpenBLAS chose
+  for (const auto& [name, value] : settings) unsetenv(name.c_str());  // the restart failed: carry on as we are
 #else
   (void)argv;
 #endif

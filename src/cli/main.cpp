@@ -207,7 +207,7 @@ int RunSolve(const SolveArgs& a) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  skein::RestartWithBetterBlasKernel(argv);  // before anything else: OpenBLAS may have picked a generic kernel
+  skein::RestartWithBlasSettings(argv);  // before anything else: what OpenBLAS reads only when it loads
   CLI::App app{"skein: vortex-lattice aerodynamics for conceptual aircraft design.\n"
                "Example: skein solve cases/survey_drone.toml --json result.json"};
   app.set_version_flag("--version", std::string("skein ") + SKEIN_VERSION);

@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -286,6 +287,37 @@ TEST(Factorisation, BlasKernelRestartIsOfferedOnlyWhenItWouldHelp) {
   if (std::string(InPlaceLu::Backend()) == "OpenBLAS/LAPACKE") {
     EXPECT_STRNE(BlasKernelName(), "");
   }
+}
+
+TEST(Factorisation, BlasRestartNeverOverridesTheUsersSettings) {
+  const auto saved = [](const char* name) {
+    const char* v = std::getenv(name);
+    return v ? std::optional<std::string>(v) : std::nullopt;
+  };
+  const auto restore = [](const char* name, const std::optional<std::string>& v) {
+    if (v) {
+      setenv(name, v->c_str(), 1);
+    } else {
+      unsetenv(name);
+    }
+  };
+  const auto coretype = saved("OPENBLAS_CORETYPE"), timeout = saved("OPENBLAS_THREAD_TIMEOUT");
+  setenv("OPENBLAS_CORETYPE", "Haswell", 1);
+  setenv("OPENBLAS_THREAD_TIMEOUT", "20", 1);
+  EXPECT_TRUE(BlasRestartSettings().empty());
+  unsetenv("OPENBLAS_THREAD_TIMEOUT");
+  // Only the timeout may be asked for now, and only with more than one OpenBLAS thread.
+  const auto settings = BlasRestartSettings();
+  for (const auto& [name, value] : settings) {
+    EXPECT_EQ(name, "OPENBLAS_THREAD_TIMEOUT");
+    EXPECT_EQ(value, "4");
+  }
+  {
+    const ScopedBlasThreads one(1);
+    EXPECT_TRUE(BlasRestartSettings().empty());
+  }
+  restore("OPENBLAS_CORETYPE", coretype);
+  restore("OPENBLAS_THREAD_TIMEOUT", timeout);
 }
 
 // ---- the plan ------------------------------------------------------------------------------------------------

@@ -449,7 +449,7 @@ void PrintRow(const std::string& what, const Ratio& r, const std::string& target
 }  // namespace
 
 int main(int argc, char** argv) {
-  skein::RestartWithBetterBlasKernel(argv);  // as the CLI does: the reference dgetrf runs the same kernel
+  skein::RestartWithBlasSettings(argv);  // as the CLI does: the reference dgetrf runs the same way
   if (argc == 3 && std::string(argv[1]) == "--child") return Child(argv[2]);
   bool memory = true;  // --skip-memory: no child processes (a quick look at one benchmark)
   for (int i = 1; i < argc; ++i)
