@@ -3,6 +3,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <numeric>
 #include <set>
 #include <utility>
@@ -320,13 +321,61 @@ void CheckGeometry(const Case& c, const Lattice& lat) {
   CheckIntersections(c, lat);
 }
 
+namespace {
+
+/// For each panel, whether its control point comes within the larger of kOnLegFraction and kNearLegFraction
+/// (a little more, for rounding) of its panel size of a trailing leg of another strip (downstream of the leg's
+/// start, leg along d): the panels CheckWakeClearance looks at closely. Squared distances, no square roots,
+/// the panels in parallel: every panel is tested against every leg, O(panels x strips).
+std::vector<char> PanelsNearALeg(const Lattice& lat, const Vec3& d) {
+  const std::size_t n = lat.panels(), nlegs = 2 * lat.strips.size();
+  std::vector<double> sx(nlegs), sy(nlegs), sz(nlegs);
+  for (std::size_t k = 0; k < lat.strips.size(); ++k)
+    for (std::size_t e = 0; e < 2; ++e) {
+      const Vec3& p = e == 0 ? lat.strips[k].te_left : lat.strips[k].te_right;
+      sx[2 * k + e] = p[0];
+      sy[2 * k + e] = p[1];
+      sz[2 * k + e] = p[2];
+    }
+  const double fraction = 1.01 * std::max(kOnLegFraction, kNearLegFraction);
+  std::vector<char> near(n, 0);
+#pragma omp parallel for schedule(static)
+  for (std::ptrdiff_t ii = 0; ii < static_cast<std::ptrdiff_t>(n); ++ii) {
+    const auto i = static_cast<std::size_t>(ii);
+    const Vec3 cp = lat.control[i];
+    const double limit = fraction * PanelSize(lat, i), limit2 = limit * limit;
+    const std::size_t own = lat.strip[i] >= 0 ? static_cast<std::size_t>(lat.strip[i]) : nlegs;  // none: all
+    const double px = cp[0], py = cp[1], pz = cp[2], dx = d[0], dy = d[1], dz = d[2];
+    const double *lx = sx.data(), *ly = sy.data(), *lz = sz.data();
+    const auto any_near = [&](std::size_t first, std::size_t last) {
+      double closest = std::numeric_limits<double>::infinity();  // squared distance to the nearest leg
+#pragma omp simd reduction(min : closest)
+      for (std::size_t k = first; k < last; ++k) {
+        const double rx = px - lx[k], ry = py - ly[k], rz = pz - lz[k];
+        const double t = rx * dx + ry * dy + rz * dz;
+        const double hx = rx - t * dx, hy = ry - t * dy, hz = rz - t * dz;
+        const double h2 = hx * hx + hy * hy + hz * hz;
+        closest = std::min(closest, t > 0.0 ? h2 : std::numeric_limits<double>::infinity());
+      }
+      return closest < limit2;
+    };
+    const std::size_t skip = std::min(2 * own, nlegs), resume = std::min(2 * own + 2, nlegs);
+    near[i] = static_cast<char>(any_near(0, skip) || any_near(resume, nlegs));
+  }
+  return near;
+}
+
+}  // namespace
+
 std::vector<WakeWarning> CheckWakeClearance(const Case& c, const Lattice& lat, const Vec3& wake_direction,
                                             const std::string& flight) {
   std::vector<WakeWarning> warnings;
   const Vec3 d = Normalized(wake_direction);
   std::set<std::pair<int, int>> warned;  // (surface of the control point, surface of the leg)
   const std::string when = flight.empty() ? "" : " " + flight;
+  const std::vector<char> near = PanelsNearALeg(lat, d);
   for (std::size_t i = 0; i < lat.panels(); ++i) {
+    if (!near[i]) continue;  // no leg within either fraction of the panel size: nothing to report
     const Vec3 cp = lat.control[i];
     const double size = PanelSize(lat, i);
     for (std::size_t k = 0; k < lat.strips.size(); ++k) {

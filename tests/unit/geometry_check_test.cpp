@@ -182,6 +182,15 @@ TEST(GeometryCheck, ControlPointNearAnotherSurfacesTrailingLegWarns) {
   EXPECT_TRUE(CheckWakeClearance(TailBehindWing(0.5), BuildLattice(TailBehindWing(0.5)), {1.0, 0.0, 0.0}).empty());
 }
 
+TEST(GeometryCheck, TheWarningMarginIsAQuarterOfThePanelSize) {
+  // Tail panel size 0.5 m: the margin is 0.125 m above the leg. Just inside it warns, just outside it does not
+  // (the quick pre-filter over all panels and legs must not hide a panel at the edge).
+  EXPECT_EQ(CheckWakeClearance(TailBehindWing(0.124), BuildLattice(TailBehindWing(0.124)), {1.0, 0.0, 0.0}).size(),
+            1u);
+  EXPECT_TRUE(
+      CheckWakeClearance(TailBehindWing(0.126), BuildLattice(TailBehindWing(0.126)), {1.0, 0.0, 0.0}).empty());
+}
+
 TEST(GeometryCheck, TheWakeDirectionDecides) {
   // Tilted 10 deg, the legs pass 2.6 m behind the wing at 0.46 m above the tail: clear.
   const Case c = TailBehindWing(0.0);
