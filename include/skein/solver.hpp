@@ -51,7 +51,7 @@ struct SolverOptions {
 
 /// LU factorisation with partial pivoting of a square matrix, in place: the matrix passed in is overwritten by
 /// its factors and must outlive this object (no second copy of it). The factorisation SolveBasis uses:
-/// OpenBLAS dgetrf (and dgetrs, dgecon) through LAPACKE in a build with SKEIN_USE_OPENBLAS, Eigen's own
+/// OpenBLAS dgetrf (and dgetrs, dlacn2) through LAPACKE in a build with SKEIN_USE_OPENBLAS, Eigen's own
 /// PartialPivLU otherwise.
 class InPlaceLu {
  public:
