@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <limits>
 #include <optional>
 #include <string>
 #include <vector>
@@ -292,6 +293,17 @@ TEST(Factorisation, ExactlySingularMatrixHasZeroReciprocalCondition) {
   a.row(3) = a.row(1);  // two equal rows: an exactly zero pivot
   const InPlaceLu lu(a);
   EXPECT_EQ(lu.Rcond(), 0.0) << InPlaceLu::Backend();
+}
+
+TEST(Factorisation, NonFiniteMatrixHasZeroReciprocalCondition) {
+  // A NaN or an infinity in the matrix (a degenerate panel that slipped through) must end the estimate, never
+  // hang it or report it as well conditioned.
+  for (const double bad : {std::nan(""), std::numeric_limits<double>::infinity()}) {
+    Eigen::MatrixXd a = Eigen::MatrixXd::Identity(6, 6) + 0.1 * Eigen::MatrixXd::Ones(6, 6);
+    a(2, 4) = bad;
+    const InPlaceLu lu(a);
+    EXPECT_EQ(lu.Rcond(), 0.0) << bad << ", " << InPlaceLu::Backend();
+  }
 }
 
 TEST(Factorisation, BlasKernelRestartIsOfferedOnlyWhenItWouldHelp) {
