@@ -323,13 +323,30 @@ void CheckGeometry(const Case& c, const Lattice& lat) {
 
 namespace {
 
+/// Squared distance from P to the nearest of the legs first .. last - 1 (starting at (lx, ly, lz)[k], along the
+/// unit vector d) that P lies beside, downstream of the leg's start; infinity when there is none.
+double NearestLegSquared(const double* lx, const double* ly, const double* lz, const Vec3& d, const Vec3& p,
+                         std::size_t first, std::size_t last) {
+  constexpr double kFar = std::numeric_limits<double>::infinity();
+  const double px = p[0], py = p[1], pz = p[2], dx = d[0], dy = d[1], dz = d[2];
+  double closest = kFar;
+#pragma omp simd reduction(min : closest)
+  for (std::size_t k = first; k < last; ++k) {
+    const double rx = px - lx[k], ry = py - ly[k], rz = pz - lz[k];
+    const double t = rx * dx + ry * dy + rz * dz;
+    const double hx = rx - t * dx, hy = ry - t * dy, hz = rz - t * dz;
+    closest = std::min(closest, t > 0.0 ? hx * hx + hy * hy + hz * hz : kFar);
+  }
+  return closest;
+}
+
 /// For each panel, whether its control point comes within the larger of kOnLegFraction and kNearLegFraction
 /// (a little more, for rounding) of its panel size of a trailing leg of another strip (downstream of the leg's
 /// start, leg along d): the panels CheckWakeClearance looks at closely. Squared distances, no square roots,
 /// the panels in parallel: every panel is tested against every leg, O(panels x strips).
 std::vector<char> PanelsNearALeg(const Lattice& lat, const Vec3& d) {
   const std::size_t n = lat.panels(), nlegs = 2 * lat.strips.size();
-  std::vector<double> sx(nlegs), sy(nlegs), sz(nlegs);
+  std::vector<double> sx(nlegs), sy(nlegs), sz(nlegs);  // strip k's legs: 2 k (left) and 2 k + 1 (right)
   for (std::size_t k = 0; k < lat.strips.size(); ++k)
     for (std::size_t e = 0; e < 2; ++e) {
       const Vec3& p = e == 0 ? lat.strips[k].te_left : lat.strips[k].te_right;
@@ -337,30 +354,20 @@ std::vector<char> PanelsNearALeg(const Lattice& lat, const Vec3& d) {
       sy[2 * k + e] = p[1];
       sz[2 * k + e] = p[2];
     }
+  const auto nearest = [&](const Vec3& p, std::size_t first, std::size_t last) {
+    return NearestLegSquared(sx.data(), sy.data(), sz.data(), d, p, first, last);
+  };
   const double fraction = 1.01 * std::max(kOnLegFraction, kNearLegFraction);
   std::vector<char> near(n, 0);
 #pragma omp parallel for schedule(static)
   for (std::ptrdiff_t ii = 0; ii < static_cast<std::ptrdiff_t>(n); ++ii) {
     const auto i = static_cast<std::size_t>(ii);
-    const Vec3 cp = lat.control[i];
-    const double limit = fraction * PanelSize(lat, i), limit2 = limit * limit;
-    const std::size_t own = lat.strip[i] >= 0 ? static_cast<std::size_t>(lat.strip[i]) : nlegs;  // none: all
-    const double px = cp[0], py = cp[1], pz = cp[2], dx = d[0], dy = d[1], dz = d[2];
-    const double *lx = sx.data(), *ly = sy.data(), *lz = sz.data();
-    const auto any_near = [&](std::size_t first, std::size_t last) {
-      double closest = std::numeric_limits<double>::infinity();  // squared distance to the nearest leg
-#pragma omp simd reduction(min : closest)
-      for (std::size_t k = first; k < last; ++k) {
-        const double rx = px - lx[k], ry = py - ly[k], rz = pz - lz[k];
-        const double t = rx * dx + ry * dy + rz * dz;
-        const double hx = rx - t * dx, hy = ry - t * dy, hz = rz - t * dz;
-        const double h2 = hx * hx + hy * hy + hz * hz;
-        closest = std::min(closest, t > 0.0 ? h2 : std::numeric_limits<double>::infinity());
-      }
-      return closest < limit2;
-    };
-    const std::size_t skip = std::min(2 * own, nlegs), resume = std::min(2 * own + 2, nlegs);
-    near[i] = static_cast<char>(any_near(0, skip) || any_near(resume, nlegs));
+    const double limit = fraction * PanelSize(lat, i);
+    // Every leg but the two of the panel's own strip (none left out when it has no strip).
+    const std::size_t own = lat.strip[i] >= 0 ? 2 * static_cast<std::size_t>(lat.strip[i]) : nlegs;
+    const double closest =
+        std::min(nearest(lat.control[i], 0, own), nearest(lat.control[i], std::min(own + 2, nlegs), nlegs));
+    near[i] = static_cast<char>(closest < limit * limit);
   }
   return near;
 }

@@ -1,8 +1,8 @@
 // Skein stage 4, solve. See solver.hpp.
 // Factorise and solve with the machine's LAPACK (OpenBLAS dgetrf and dgetrs, and dlacn2 for the condition
 // estimate, through LAPACKE's _work entry points, which skip LAPACKE's O(N^2) NaN scan: a NaN still reaches
-// the reciprocal condition and is reported as a singular system) when the build has it (SKEIN_USE_OPENBLAS); Eigen's own PartialPivLU
-// otherwise.
+// the reciprocal condition and is reported as a singular system) when the build has it (SKEIN_USE_OPENBLAS);
+// Eigen's own PartialPivLU otherwise.
 #include "skein/solver.hpp"
 
 #include <array>

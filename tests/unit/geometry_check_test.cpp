@@ -185,10 +185,12 @@ TEST(GeometryCheck, ControlPointNearAnotherSurfacesTrailingLegWarns) {
 TEST(GeometryCheck, TheWarningMarginIsAQuarterOfThePanelSize) {
   // Tail panel size 0.5 m: the margin is 0.125 m above the leg. Just inside it warns, just outside it does not
   // (the quick pre-filter over all panels and legs must not hide a panel at the edge).
-  EXPECT_EQ(CheckWakeClearance(TailBehindWing(0.124), BuildLattice(TailBehindWing(0.124)), {1.0, 0.0, 0.0}).size(),
-            1u);
-  EXPECT_TRUE(
-      CheckWakeClearance(TailBehindWing(0.126), BuildLattice(TailBehindWing(0.126)), {1.0, 0.0, 0.0}).empty());
+  const auto warnings_at = [](double height) {
+    const Case c = TailBehindWing(height);
+    return CheckWakeClearance(c, BuildLattice(c), {1.0, 0.0, 0.0}).size();
+  };
+  EXPECT_EQ(warnings_at(0.124), 1u);
+  EXPECT_EQ(warnings_at(0.126), 0u);
 }
 
 TEST(GeometryCheck, TheWakeDirectionDecides) {

@@ -268,8 +268,8 @@ TEST(Factorisation, ConditionEstimateBracketsTheExactReciprocalCondition) {
 TEST(Factorisation, ConditionEstimateIsLapacksDgecon) {
   // InPlaceLu::Rcond drives LAPACK's dlacn2 (Hager's estimator as refined by Higham) with plain solves on the
   // LU factors; LAPACK's dgecon drives the same estimator with overflow-guarded solves (dlatrs; E. Anderson
-  // et al., "LAPACK Users' Guide", 3rd ed., SIAM 1999, section 4.4, section number from memory). On the same factors of an ordinary
-  // aircraft's matrix the two agree to rounding.
+  // et al., "LAPACK Users' Guide", 3rd ed., SIAM 1999, section 4.4, section number from memory). On the same
+  // factors of an ordinary aircraft's matrix the two agree to rounding.
   const Case c = Aircraft(true, true);
   const Lattice lat = BuildLattice(c);
   const WakeGeometry wake = WakeFor(c, 0.0, 0.0);
