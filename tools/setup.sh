@@ -4,6 +4,8 @@
 #   tools/setup.sh              install what is missing, configure Release in build/ and build everything
 #   tools/setup.sh skein_cli    the same, building only the named targets (the demo needs only the CLI)
 #   tools/setup.sh --packages   install what is missing and stop (tools/bench.sh builds elsewhere)
+#   tools/setup.sh --list-packages   print the Debian packages Skein needs, one a line, and stop (.ci/run
+#                                     installs them itself with apt-get)
 #   tools/setup.sh --with-browser ...   also install chromium and fonts-dejavu-core, for the browser test of the
 #                                       HTML report (tests/output/browser_report_test.cpp, skipped without them)
 #
@@ -24,6 +26,11 @@ for a in "$@"; do
   fi
 done
 set -- "${args[@]}"
+
+if [[ ${1:-} == --list-packages ]]; then
+  printf '%s\n' "${packages[@]}"
+  exit 0
+fi
 
 missing=()
 for p in "${packages[@]}"; do
