@@ -14,6 +14,21 @@
 // two segments' another: 1/x = y z / (x y z). So a horseshoe costs four square roots and two divisions, and
 // the products stay in range for lengths between about 1e-8 m and 1e14 m.
 //
+// The assembly goes further, strip by strip. A strip's chordwise panels share their trailing-edge points, so
+// their semi-infinite legs are the same lines, and their legs TA -> A and B -> TB lie on the strip's two side
+// edges. Only the core radius (each panel's own) differs, and it enters a line's velocity as a factor that
+// depends on the distance h to the line alone: a leg is (its velocity without a core) x h^4 / (h^4 + eps^4),
+// and a piece X -> Y of a line along the unit vector u is
+//     (g(X) - g(Y)) m h^2 / (4 pi (h^4 + eps^4)),   g(Z) = u . (P - Z) / |P - Z|,  m = u x (P - X),  h = |m|,
+// where m and h are the same for every piece of the line (Katz & Plotkin's cos theta_1 - cos theta_2 form,
+// eq. 2.72, with c = r0 x r1 = (u . r0) m). So ten numbers per target and strip (StripFields) hold the legs
+// and the edges; a column then costs its bound segment, the cosines at A and B (from the two distances it
+// needs anyway) and one division: per entry two square roots, one division and 58 multiplications and fused
+// multiply-adds, where the horseshoe kernel took two square roots (with the strip's |P - TA|, |P - TB|
+// shared), two divisions and 139 (counted in the AVX2 loop). The panels' cores, and so the answers, are those
+// of the reference. The three grouped denominators are of order length^8, ^10 and ^10 (each floored at 1e-100),
+// which keeps their product in range for lengths between about 1e-8 m and 1e10 m.
+//
 // The loops run over contiguous arrays without branches (the ground plane is a template argument) and are
 // compiled twice, for the baseline instruction set and for AVX2 with FMA, chosen at run time by what the
 // processor has. An entry is computed by the same instructions whichever thread runs it, so results do not
@@ -205,73 +220,150 @@ Shoe GroundImage(const Shoe& s, const WakeGeometry& wake) {
   return MakeShoe(gta.data(), ga.data(), gb.data(), gtb.data(), gd, s.eps4);
 }
 
-// ---- assembly: one column, the source fixed, the targets vectorised -------------------------------------
+// ---- assembly: a strip's columns, the source fixed, the targets vectorised ------------------------------
 
 struct TargetArrays {
   const double *px, *py, *pz, *nx, *ny, *nz;
   std::size_t n;
 };
 
-/// |P_i - TA| and |P_i - TB| of a horseshoe at every target: what every horseshoe of a strip (the same
-/// trailing-edge points) shares, computed once for all of them.
-struct Norms {
-  const double *ta, *tb;
+/// What the horseshoes of one strip share at every target P (normal n): the two semi-infinite legs, from TA
+/// (the left, strength -1) and TB (the right, +1), and the two side edges, lines through TA and TB along the
+/// unit vectors ul and ur, all without their core, whose radius is each panel's own (eps^4 = e). With r = P - TA,
+/// c = d x r, h = |c|^2, the left leg gives n . v = wl / (hl + e), wl = -(1 + r . d / |r|) h (c . n) / (4 pi),
+/// hl = h^2 (the right one likewise). A segment X -> Y on a line along u is (g(X) - g(Y)) (m . n) h / (4 pi
+/// (h^2 + e)), g(Z) = u . (P - Z) / |P - Z|, m = u x (P - X) and h = |m|^2 the same for every piece of the line
+/// (the factor k c^2 / (|r1| |r2| (c^4 + e |r0|^4)) of the file comment with c = r0 x r1 = (u . r0) m): so the
+/// left edge's TA -> A gives (gl - u . (P - A) / |P - A|) ml / (kl + e), gl = g(TA), ml = (m . n) h / (4 pi),
+/// kl = h^2, and the right edge's B -> TB (u . (P - B) / |P - B| - gr) mr / (kr + e). Ten numbers per target
+/// and strip; a column then needs only its bound segment's terms and the two distances |P - A|, |P - B|.
+struct StripFields {
+  double *wl, *hl, *wr, *hr, *gl, *ml, *kl, *gr, *mr, *kr;
 };
-SKEIN_ALWAYS_INLINE void NormsImpl(const TargetArrays& t, const Shoe& src, double* ta, double* tb) {
+constexpr std::size_t kStripFields = 10;
+
+/// A column's own numbers: the bound segment A -> B (r0 = B - A, eb = e |r0|^4), the panel's core e and the
+/// directions of the strip's side edges.
+struct Column {
+  double a[3], b[3], r0[3], ul[3], ur[3];
+  double e, eb;
+};
+Column ColumnOf(const Shoe& s, const double* ul, const double* ur) {
+  Column c{};
+  for (int k = 0; k < 3; ++k) {
+    c.a[k] = s.a[k];
+    c.b[k] = s.b[k];
+    c.r0[k] = s.b[k] - s.a[k];
+    c.ul[k] = ul[k];
+    c.ur[k] = ur[k];
+  }
+  c.e = s.eps4;
+  c.eb = s.e[1];
+  return c;
+}
+
+/// The strip's fields at every target of t, for the horseshoe s with side edges along ul and ur.
+SKEIN_ALWAYS_INLINE void StripStartImpl(const TargetArrays& t, const Shoe& src, const double* uleft,
+                                        const double* uright, StripFields f) {
   const Shoe s = src;
-  const double *px = t.px, *py = t.py, *pz = t.pz;
-#pragma omp simd
-  for (std::size_t i = 0; i < t.n; ++i) {
-    ta[i] = DistanceTo(px[i], py[i], pz[i], s.ta[0], s.ta[1], s.ta[2]);
-    tb[i] = DistanceTo(px[i], py[i], pz[i], s.tb[0], s.tb[1], s.tb[2]);
-  }
-}
-
-/// Column of a single system: out[i] = n_i . v(P_i) of the source (and its ground image), with their Norms.
-template <bool kGround>
-SKEIN_ALWAYS_INLINE void DirectColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
-                                          Norms ns, Norms ng, double* out) {
-  const Shoe s = src, g = src_ground;
+  const double ul[3] = {uleft[0], uleft[1], uleft[2]}, ur[3] = {uright[0], uright[1], uright[2]};
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
 #pragma omp simd
   for (std::size_t i = 0; i < t.n; ++i) {
-    double u = 0.0, v = 0.0, w = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], ns.ta[i], ns.tb[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(g, px[i], py[i], pz[i], ng.ta[i], ng.tb[i], u, v, w);
-    out[i] = u * nx[i] + v * ny[i] + w * nz[i];
+    const double qx = px[i] - s.ta[0], qy = py[i] - s.ta[1], qz = pz[i] - s.ta[2];
+    const double sx = px[i] - s.tb[0], sy = py[i] - s.tb[1], sz = pz[i] - s.tb[2];
+    const double inq = 1.0 / std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
+    const double ins = 1.0 / std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
+    // Semi-infinite legs: c = d x r.
+    const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
+    const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
+    const double h0 = c0x * c0x + c0y * c0y + c0z * c0z, h4 = c4x * c4x + c4y * c4y + c4z * c4z;
+    f.wl[i] = -kInv4Pi * (1.0 + (qx * s.d[0] + qy * s.d[1] + qz * s.d[2]) * inq) * h0 *
+              (c0x * nx[i] + c0y * ny[i] + c0z * nz[i]);
+    f.hl[i] = h0 * h0;
+    f.wr[i] = kInv4Pi * (1.0 + (sx * s.d[0] + sy * s.d[1] + sz * s.d[2]) * ins) * h4 *
+              (c4x * nx[i] + c4y * ny[i] + c4z * nz[i]);
+    f.hr[i] = h4 * h4;
+    // Side edges.
+    const double mlx = ul[1] * qz - ul[2] * qy, mly = ul[2] * qx - ul[0] * qz, mlz = ul[0] * qy - ul[1] * qx;
+    const double mrx = ur[1] * sz - ur[2] * sy, mry = ur[2] * sx - ur[0] * sz, mrz = ur[0] * sy - ur[1] * sx;
+    const double hl = mlx * mlx + mly * mly + mlz * mlz, hr = mrx * mrx + mry * mry + mrz * mrz;
+    f.gl[i] = (ul[0] * qx + ul[1] * qy + ul[2] * qz) * inq;
+    f.ml[i] = kInv4Pi * hl * (mlx * nx[i] + mly * ny[i] + mlz * nz[i]);
+    f.kl[i] = hl * hl;
+    f.gr[i] = (ur[0] * sx + ur[1] * sy + ur[2] * sz) * ins;
+    f.mr[i] = kInv4Pi * hr * (mrx * nx[i] + mry * ny[i] + mrz * nz[i]);
+    f.kr[i] = hr * hr;
   }
 }
 
-/// Columns of the symmetric/antisymmetric pair: anti[i] = direct - image for every target, sym[i] =
-/// direct + image for the first n_sym. nn[0..3]: the Norms of src, src_ground, img, img_ground.
+/// n . v at P of a column's horseshoe, from the strip's fields at target i (see StripFields): two square
+/// roots and one division, 1/x = y z / (x y z) over the legs', the edges' and the bound segment's
+/// denominators (each floored at kDenominatorFloor; of order length^8, length^10 and length^10).
+SKEIN_ALWAYS_INLINE double ColumnAt(const Column& c, const StripFields& f, std::size_t i, double px, double py,
+                                    double pz, double nx, double ny, double nz) {
+  const double r1x = px - c.a[0], r1y = py - c.a[1], r1z = pz - c.a[2];
+  const double r2x = px - c.b[0], r2y = py - c.b[1], r2z = pz - c.b[2];
+  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
+  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
+  const Term tm = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, c.r0[0], c.r0[1], c.r0[2], c.eb);
+  const double e = c.e;
+  const double fl = f.hl[i] + e, fr = f.hr[i] + e, el = f.kl[i] + e, er = f.kr[i] + e;
+  const double a1 = c.ul[0] * r1x + c.ul[1] * r1y + c.ul[2] * r1z;
+  const double a2 = c.ur[0] * r2x + c.ur[1] * r2y + c.ur[2] * r2z;
+  const double d1 = std::max(fl * fr, kDenominatorFloor);
+  const double d2 = std::max(n1 * n2 * el * er, kDenominatorFloor);
+  const double d3 = tm.den;
+  const double legs = f.wl[i] * fr + f.wr[i] * fl;
+  const double edges = (f.gl[i] * n1 - a1) * n2 * f.ml[i] * er + (a2 - f.gr[i] * n2) * n1 * f.mr[i] * el;
+  const double bound = tm.num * (tm.cx * nx + tm.cy * ny + tm.cz * nz);
+  const double d23 = d2 * d3;
+  return (legs * d23 + (edges * d3 + bound * d2) * d1) / (d1 * d23);
+}
+
+/// Column of a single system: out[i] = n_i . v(P_i) of the column's horseshoe (and its ground image).
 template <bool kGround>
-SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Shoe& src, const Shoe& src_ground,
-                                        const Shoe& img, const Shoe& img_ground, const Norms* nn,
+SKEIN_ALWAYS_INLINE void DirectColumnImpl(const TargetArrays& t, const Column& src, const Column& src_ground,
+                                          const StripFields* fields, double* out) {
+  const Column s = src, g = src_ground;
+  const StripFields fs = fields[0], fg = fields[1];
+  const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
+#pragma omp simd
+  for (std::size_t i = 0; i < t.n; ++i) {
+    double v = ColumnAt(s, fs, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);
+    if constexpr (kGround) v += ColumnAt(g, fg, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);
+    out[i] = v;
+  }
+}
+
+/// Columns of the symmetric/antisymmetric pair: anti[i] = direct - image for every target, sym[i] = direct +
+/// image for the first n_sym. fields[0..3]: those of src, src_ground, img, img_ground.
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Column& src, const Column& src_ground,
+                                        const Column& img, const Column& img_ground, const StripFields* fields,
                                         std::size_t n_sym, double* anti, double* sym) {
-  const Shoe s = src, sg = src_ground, m = img, mg = img_ground;
-  const Norms a = nn[0], ag = nn[1], b = nn[2], bg = nn[3];
+  const Column s = src, sg = src_ground, m = img, mg = img_ground;
+  const StripFields fs = fields[0], fsg = fields[1], fm = fields[2], fmg = fields[3];
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
+#define SKEIN_PAIR_ENTRY                                                                    \
+  double direct = ColumnAt(s, fs, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);             \
+  double image = ColumnAt(m, fm, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);              \
+  if constexpr (kGround) {                                                                  \
+    direct += ColumnAt(sg, fsg, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);               \
+    image += ColumnAt(mg, fmg, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);                \
+  }
 #pragma omp simd
   for (std::size_t i = 0; i < n_sym; ++i) {
-    double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], a.ta[i], a.tb[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], ag.ta[i], ag.tb[i], u, v, w);
-    ShoeVelocity(m, px[i], py[i], pz[i], b.ta[i], b.tb[i], ui, vi, wi);
-    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], bg.ta[i], bg.tb[i], ui, vi, wi);
-    const double direct = u * nx[i] + v * ny[i] + w * nz[i];
-    const double image = ui * nx[i] + vi * ny[i] + wi * nz[i];
+    SKEIN_PAIR_ENTRY
     anti[i] = direct - image;
     sym[i] = direct + image;
   }
 #pragma omp simd
   for (std::size_t i = n_sym; i < t.n; ++i) {
-    double u = 0.0, v = 0.0, w = 0.0, ui = 0.0, vi = 0.0, wi = 0.0;
-    ShoeVelocity(s, px[i], py[i], pz[i], a.ta[i], a.tb[i], u, v, w);
-    if constexpr (kGround) ShoeVelocity(sg, px[i], py[i], pz[i], ag.ta[i], ag.tb[i], u, v, w);
-    ShoeVelocity(m, px[i], py[i], pz[i], b.ta[i], b.tb[i], ui, vi, wi);
-    if constexpr (kGround) ShoeVelocity(mg, px[i], py[i], pz[i], bg.ta[i], bg.tb[i], ui, vi, wi);
-    anti[i] = (u * nx[i] + v * ny[i] + w * nz[i]) - (ui * nx[i] + vi * ny[i] + wi * nz[i]);
+    SKEIN_PAIR_ENTRY
+    anti[i] = direct - image;
   }
+#undef SKEIN_PAIR_ENTRY
 }
 
 // ---- velocity pass: one target, the sources vectorised ----------------------------------------------------
@@ -402,18 +494,20 @@ SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size
                           std::size_t kw, double* y) {                                                        \
     ProductImpl(r, ldr, rows, g, n, kw, y);                                                                   \
   }                                                                                                           \
-  ATTR void Norms##Name(const TargetArrays& t, const Shoe& s, double* ta, double* tb) {                      \
-    NormsImpl(t, s, ta, tb);                                                                                  \
+  ATTR void StripStart##Name(const TargetArrays& t, const Shoe& s, const double* ul, const double* ur,          \
+                             StripFields f) {                                                                 \
+    StripStartImpl(t, s, ul, ur, f);                                                                          \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
-  ATTR void DirectColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& g, Norms ns, Norms ng,       \
-                               double* out) {                                                                 \
-    DirectColumnImpl<kGround>(t, s, g, ns, ng, out);                                                          \
+  ATTR void DirectColumn##Name(const TargetArrays& t, const Column& s, const Column& g,                       \
+                               const StripFields* f, double* out) {                                           \
+    DirectColumnImpl<kGround>(t, s, g, f, out);                                                               \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
-  ATTR void PairColumn##Name(const TargetArrays& t, const Shoe& s, const Shoe& sg, const Shoe& m,             \
-                             const Shoe& mg, const Norms* nn, std::size_t n_sym, double* anti, double* sym) { \
-    PairColumnImpl<kGround>(t, s, sg, m, mg, nn, n_sym, anti, sym);                                           \
+  ATTR void PairColumn##Name(const TargetArrays& t, const Column& s, const Column& sg, const Column& m,       \
+                             const Column& mg, const StripFields* f, std::size_t n_sym, double* anti,         \
+                             double* sym) {                                                                   \
+    PairColumnImpl<kGround>(t, s, sg, m, mg, f, n_sym, anti, sym);                                            \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
   ATTR void KernelRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,      \
@@ -456,10 +550,10 @@ std::atomic<int>& IsaCap() {
 
 /// The kernel entry points for this processor and ground setting.
 struct Kernels {
-  void (*norms)(const TargetArrays&, const Shoe&, double*, double*);
-  void (*direct)(const TargetArrays&, const Shoe&, const Shoe&, Norms, Norms, double*);
-  void (*pair)(const TargetArrays&, const Shoe&, const Shoe&, const Shoe&, const Shoe&, const Norms*, std::size_t,
-               double*, double*);
+  void (*start)(const TargetArrays&, const Shoe&, const double*, const double*, StripFields);
+  void (*direct)(const TargetArrays&, const Column&, const Column&, const StripFields*, double*);
+  void (*pair)(const TargetArrays&, const Column&, const Column&, const Column&, const Column&, const StripFields*,
+               std::size_t, double*, double*);
   void (*row)(const ShoeTable&, const ShoeTable&, std::size_t, std::size_t, double, double, double, double*,
               double*, double*);
   void (*paired)(const ShoeTable&, const ShoeTable&, std::size_t, double, double, double, double*, double*,
@@ -471,13 +565,13 @@ template <bool kGround>
 Kernels KernelsFor() {
 #if defined(SKEIN_AVX2_CLONE)
   if (KernelIsaInUse() == KernelIsa::avx512)
-    return {&NormsAvx512, &DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
+    return {&StripStartAvx512, &DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
             &PairedRowAvx512<kGround>, &ProductAvx512};
   if (KernelIsaInUse() == KernelIsa::avx2)
-    return {&NormsAvx2, &DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
+    return {&StripStartAvx2, &DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
             &PairedRowAvx2<kGround>, &ProductAvx2};
 #endif
-  return {&NormsBase, &DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
+  return {&StripStartBase, &DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
           &ProductBase};
 }
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
@@ -645,7 +739,6 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
     ny[i] = lat.normal.y[p];
     nz[i] = lat.normal.z[p];
   }
-  const TargetArrays targets{px.data(), py.data(), pz.data(), nx.data(), ny.data(), nz.data(), n};
   std::vector<Eigen::MatrixXd> mats;
   for (const auto& l : layouts) {
     const auto m = static_cast<Eigen::Index>(l.panel.size());
@@ -655,65 +748,108 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
   const bool split = layouts.size() == 2 || sym_only;
   const bool ground = wake.ground.enabled;
   const Kernels kernels = KernelsFor(ground);
-  // Runs of columns whose horseshoes (and images) share their trailing-edge points, bit for bit: a strip's
-  // chordwise panels. Their distances to the targets (two of each horseshoe's four square roots) are computed
-  // once per run. A column's arithmetic is the same whichever run or thread it falls in.
-  const auto same_te = [](const Shoe& x, const Shoe& y) {
+  // Strips: runs of columns whose horseshoes (and images) share their trailing-edge points bit for bit, with
+  // every A on the line through TA and the run's first A, and every B on the line through TB and its first
+  // B, to rounding: a strip's chordwise panels. What they share at a target (StripFields) is computed once per
+  // run and block of targets, and a column's arithmetic is the same whichever run or thread it falls in.
+  const auto same_strip = [](const Shoe& x, const Shoe& y) {
     for (int k = 0; k < 3; ++k)
       if (!Exactly(x.ta[k], y.ta[k]) || !Exactly(x.tb[k], y.tb[k])) return false;
-    return true;
+    const auto on_line = [](const double* o, const double* p, const double* q) {
+      const Vec3 u{p[0] - o[0], p[1] - o[1], p[2] - o[2]}, v{q[0] - o[0], q[1] - o[1], q[2] - o[2]};
+      return detail::Norm(detail::Cross(u, v)) <= 1e-13 * detail::Norm(u) * detail::Norm(v);
+    };
+    return on_line(x.ta, x.a, y.a) && on_line(x.tb, x.b, y.b);
   };
   std::vector<std::size_t> run_start;
   for (std::size_t j = 0; j < n; ++j) {
     const bool has_image = split && wide.image[j] >= 0;
-    bool joins = j > 0 && has_image == (split && wide.image[j - 1] >= 0) &&
-                 same_te(LoadShoe(lat, wide.panel[j], wake), LoadShoe(lat, wide.panel[j - 1], wake));
+    bool joins = j > 0 && !run_start.empty() && has_image == (split && wide.image[j - 1] >= 0) &&
+                 same_strip(LoadShoe(lat, wide.panel[run_start.back()], wake), LoadShoe(lat, wide.panel[j], wake));
     if (joins && has_image)
-      joins = same_te(LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake),
-                      LoadShoe(lat, static_cast<std::size_t>(wide.image[j - 1]), wake));
+      joins = same_strip(LoadShoe(lat, static_cast<std::size_t>(wide.image[run_start.back()]), wake),
+                         LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake));
     if (!joins) run_start.push_back(j);
   }
   run_start.push_back(n);
   const auto nruns = static_cast<std::ptrdiff_t>(run_start.size() - 1);
+  // Targets in blocks, so that a run's fields stay in the core's cache while its columns are computed.
+  constexpr std::size_t kTargetBlock = 512;
 #pragma omp parallel
   {
     std::vector<double> scratch(sym_only ? n : 0);
-    std::vector<double> distances(8 * n);  // |P - TA|, |P - TB| of source, its ground image, image, its ground image
-    double* dist[8];
-    Norms nn[4];
-    for (std::size_t k = 0; k < 8; ++k) dist[k] = distances.data() + k * n;
-    for (std::size_t k = 0; k < 4; ++k) nn[k] = {dist[2 * k], dist[2 * k + 1]};
+    std::vector<double> store(4 * kStripFields * kTargetBlock);  // source, its ground image, image, its ground image
+    StripFields fields[4];
+    for (std::size_t k = 0; k < 4; ++k) {
+      double* f = store.data() + k * kStripFields * kTargetBlock;
+      fields[k] = {f,
+                   f + kTargetBlock,
+                   f + 2 * kTargetBlock,
+                   f + 3 * kTargetBlock,
+                   f + 4 * kTargetBlock,
+                   f + 5 * kTargetBlock,
+                   f + 6 * kTargetBlock,
+                   f + 7 * kTargetBlock,
+                   f + 8 * kTargetBlock,
+                   f + 9 * kTargetBlock};
+    }
+    std::vector<std::array<Shoe, 4>> shoes;
+    std::vector<std::array<Column, 4>> columns;
 #pragma omp for schedule(dynamic, 1)
     for (std::ptrdiff_t run = 0; run < nruns; ++run) {
       const auto r = static_cast<std::size_t>(run);
-      for (std::size_t j = run_start[r]; j < run_start[r + 1]; ++j) {
-        const auto jj = static_cast<Eigen::Index>(j);
-        const Shoe src = LoadShoe(lat, wide.panel[j], wake);
-        const Shoe src_ground = ground ? GroundImage(src, wake) : src;
-        const bool has_image = wide.image[j] >= 0;
-        double* col_wide = sym_only ? scratch.data() : mats.back().col(jj).data();
-        double* col_sym = split && j < n_sym ? mats[0].col(jj).data() : nullptr;
-        if (!split || !has_image) {
-          // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
-          if (j == run_start[r]) {
-            kernels.norms(targets, src, dist[0], dist[1]);
-            if (ground) kernels.norms(targets, src_ground, dist[2], dist[3]);
-          }
-          kernels.direct(targets, src, src_ground, nn[0], nn[1], col_wide);
-          if (col_sym) std::copy(col_wide, col_wide + n_sym, col_sym);
-          continue;
+      const std::size_t first = run_start[r], count = run_start[r + 1] - first;
+      const bool paired = split && wide.image[first] >= 0;
+      const int variants = paired ? 4 : 2;
+      shoes.resize(count);
+      columns.resize(count);
+      for (std::size_t q = 0; q < count; ++q) {
+        std::array<Shoe, 4>& sh = shoes[q];
+        sh[0] = LoadShoe(lat, wide.panel[first + q], wake);
+        sh[1] = ground ? GroundImage(sh[0], wake) : sh[0];
+        if (paired) {
+          sh[2] = LoadShoe(lat, static_cast<std::size_t>(wide.image[first + q]), wake);
+          sh[3] = ground ? GroundImage(sh[2], wake) : sh[2];
         }
-        const Shoe img = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
-        const Shoe img_ground = ground ? GroundImage(img, wake) : img;
-        if (j == run_start[r]) {
-          kernels.norms(targets, src, dist[0], dist[1]);
-          kernels.norms(targets, img, dist[4], dist[5]);
-          if (ground) {
-            kernels.norms(targets, src_ground, dist[2], dist[3]);
-            kernels.norms(targets, img_ground, dist[6], dist[7]);
+      }
+      // Unit vectors along the side edges, from the run's first column (any one would do: they lie on a line).
+      double ul[4][3] = {}, ur[4][3] = {};
+      for (int k = 0; k < variants; ++k) {
+        const Shoe& s0 = shoes[0][static_cast<std::size_t>(k)];
+        const Vec3 l = detail::Normalized({s0.a[0] - s0.ta[0], s0.a[1] - s0.ta[1], s0.a[2] - s0.ta[2]});
+        const Vec3 rr = detail::Normalized({s0.b[0] - s0.tb[0], s0.b[1] - s0.tb[1], s0.b[2] - s0.tb[2]});
+        for (int x = 0; x < 3; ++x) {
+          ul[k][x] = l[static_cast<std::size_t>(x)];
+          ur[k][x] = rr[static_cast<std::size_t>(x)];
+        }
+      }
+      for (std::size_t q = 0; q < count; ++q)
+        for (int k = 0; k < variants; ++k) {
+          const auto kk = static_cast<std::size_t>(k);
+          columns[q][kk] = ColumnOf(shoes[q][kk], ul[k], ur[k]);
+        }
+      for (std::size_t b0 = 0; b0 < n; b0 += kTargetBlock) {
+        const std::size_t nb = std::min(kTargetBlock, n - b0);
+        const TargetArrays block{px.data() + b0, py.data() + b0, pz.data() + b0,
+                                 nx.data() + b0, ny.data() + b0, nz.data() + b0, nb};
+        for (int k = 0; k < variants; ++k)
+          if (ground || k % 2 == 0)
+            kernels.start(block, shoes[0][static_cast<std::size_t>(k)], ul[k], ur[k], fields[k]);
+        const std::size_t block_sym = n_sym > b0 ? std::min(n_sym - b0, nb) : 0;
+        for (std::size_t q = 0; q < count; ++q) {
+          const std::size_t j = first + q;
+          const auto jj = static_cast<Eigen::Index>(j);
+          double* col_wide = (sym_only ? scratch.data() : mats.back().col(jj).data()) + b0;
+          double* col_sym = split && j < n_sym ? mats[0].col(jj).data() + b0 : nullptr;
+          const std::array<Column, 4>& c = columns[q];
+          if (!paired) {
+            // Full system, or a centre-line panel (its own image: it enters the antisymmetric system once).
+            kernels.direct(block, c[0], c[1], fields, col_wide);
+            if (col_sym) std::copy(col_wide, col_wide + block_sym, col_sym);
+          } else {
+            kernels.pair(block, c[0], c[1], c[2], c[3], fields, col_sym ? block_sym : 0, col_wide, col_sym);
           }
         }
-        kernels.pair(targets, src, src_ground, img, img_ground, nn, col_sym ? n_sym : 0, col_wide, col_sym);
       }
     }
   }

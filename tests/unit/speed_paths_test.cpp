@@ -283,6 +283,26 @@ TEST(SpeedPaths, AssemblyMatchesReferenceForAnAsymmetricLattice) {
   ExpectAssemblyMatches(lat, XAxisWake(), true, 1, "one-sided wing");
 }
 
+TEST(SpeedPaths, AssemblyMatchesReferenceAcrossBlocksOfTargets) {
+  // More targets than one block of the assembly (influence.cpp: kTargetBlock, 512), in both layouts.
+  const Lattice lat = BuildLattice(CaseOf({Wing(10, 60), Fin(4, 6)}));
+  ASSERT_GT(lat.panels(), 1200u);
+  ExpectAssemblyMatches(lat, XAxisWake(true), false, 1, "full model, ground plane");
+  ExpectAssemblyMatches(lat, XAxisWake(), true, 2, "half model pair");
+}
+
+TEST(SpeedPaths, AssemblyMatchesReferenceWhenAStripsPanelsAreNotInLine) {
+  // The assembly shares a strip's legs and side edges between its panels only while their bound-segment ends
+  // lie on the lines through the trailing-edge points; a lattice whose panel ends leave those lines (here, one
+  // panel's end moved up by a tenth of its chord) must still give the reference answers, whole strips or not.
+  Lattice lat = BuildLattice(CaseOf({Wing(6, 10, false, 0.3)}));
+  const Strip& st = lat.strips[4];
+  const std::size_t j = st.first_panel + 2;
+  lat.a.z[j] += 0.1 * lat.strips[4].chord / st.panels;
+  ExpectAssemblyMatches(lat, XAxisWake(), false, 1, "one panel's end out of line");
+  ExpectAssemblyMatches(lat, XAxisWake(true), false, 1, "one panel's end out of line, ground plane");
+}
+
 // ---- induced velocity ------------------------------------------------------------------------------------
 
 TEST(SpeedPaths, MirrorPathIsTakenExactlyWhenTheTargetsAreMirrorImages) {
