@@ -1,48 +1,40 @@
 // Skein stage 3, assemble. See influence.hpp.
 //
-// Speed. Both passes spend their time in the horseshoe kernel, so it is evaluated here in a form with the
-// divisions merged: per horseshoe four square roots and two divisions instead of the four and twelve of
-// AddHorseshoeVelocity (biot_savart.hpp), which stays the reference the tests hold these loops to (1e-12,
-// tests/unit/speed_paths_test.cpp). With c = r1 x r2 (|c|^2 = h^2 |r0|^2, h the distance to the segment's
-// line) and k = r0 . (r1 |r2| - r2 |r1|) = |r1| |r2| r0 . (r1/|r1| - r2/|r2|), the finite segment's factor is
-//     f = k |c|^2 / (4 pi |r1| |r2| (|c|^4 + eps^4 |r0|^4)),
-// and a semi-infinite leg's (unit d, c = d x r, |c| = h, s = +1 or -1)
-//     f = s (|r| + r . d) |c|^2 / (4 pi |r| (|c|^4 + eps^4)):
-// the expressions of biot_savart.hpp multiplied out. eps^4 |r0|^4 belongs to the source and is computed once.
-// Of the five denominators (each of order length^10 for a segment, length^5 for a leg, and floored at 1e-100,
-// where the reference adds 1e-300), the two legs' and the first segment's share one division and the other
-// two segments' another: 1/x = y z / (x y z). So a horseshoe costs four square roots and two divisions, and
-// the products stay in range for lengths between about 1e-8 m and 1e14 m.
-//
-// The assembly goes further, strip by strip. A strip's chordwise panels share their trailing-edge points, so
-// their semi-infinite legs are the same lines, and their legs TA -> A and B -> TB lie on the strip's two side
-// edges. Only the core radius (each panel's own) differs, and it enters a line's velocity as a factor that
-// depends on the distance h to the line alone: a leg is (its velocity without a core) x h^4 / (h^4 + eps^4),
-// and a piece X -> Y of a line along the unit vector u is
-//     (g(X) - g(Y)) m h^2 / (4 pi (h^4 + eps^4)),   g(Z) = u . (P - Z) / |P - Z|,  m = u x (P - X),  h = |m|,
-// where m and h are the same for every piece of the line (Katz & Plotkin's cos theta_1 - cos theta_2 form,
-// eq. 2.72, with c = r0 x r1 = (u . r0) m). So ten numbers per target and strip (StripFields) hold the legs
-// and the edges; a column then costs its bound segment, the cosines at A and B (from the two distances it
-// needs anyway) and one division: per entry two square roots, one division and 58 multiplications and fused
-// multiply-adds, where the horseshoe kernel took two square roots (with the strip's |P - TA|, |P - TB|
-// shared), two divisions and 139 (counted in the AVX2 loop). The panels' cores, and so the answers, are those
-// of the reference. The three grouped denominators are of order length^8, ^10 and ^10 (each floored at 1e-100),
-// which keeps their product in range for lengths between about 1e-8 m and 1e10 m.
+// Speed. Both passes spend their time evaluating horseshoes, AddHorseshoeVelocity of biot_savart.hpp (five
+// segments, four square roots and twelve divisions), which stays the reference the tests hold these loops to
+// (1e-12, tests/unit/speed_paths_test.cpp). Here they are evaluated strip by strip. A strip's chordwise panels
+// share their trailing-edge points, so their semi-infinite legs are the same two lines, and their legs
+// TA -> A and B -> TB lie on the strip's two side edges. Only the core radius (each panel's own) differs, and
+// it enters a line's velocity as a factor that depends on the distance to the line alone. With h = |c|^2:
+//   a semi-infinite leg from T along the unit d (c = d x r, r = P - T, s = -1 or +1) gives
+//     v = s (1 + r . d / |r|) h c / (4 pi (h^2 + eps^4)),
+//   a piece X -> Y of a line along the unit u (c = u x (P - X), the same for every piece of the line) gives
+//     v = (g(X) - g(Y)) h c / (4 pi (h^2 + eps^4)),   g(Z) = u . (P - Z) / |P - Z|
+// (Katz & Plotkin's cos theta_1 - cos theta_2 form, eq. 2.72, with r1 x r2 = (u . r0) c, regularised as in
+// biot_savart.hpp). So a few numbers per target and strip (StripFields, VelocityFields) hold the legs and the
+// edges without their core; a panel's horseshoe then costs its bound segment, the cosines at A and B (from
+// the two distances the bound segment needs anyway) and one division over three grouped denominators
+// (1/x = y z / (x y z); of order length^8, ^10 and ^10, each floored at 1e-100, which keeps the product in
+// range for lengths between about 1e-8 m and 1e10 m). Counted in the AVX2 loops: per matrix entry two square
+// roots, one division and 58 multiplications and fused multiply-adds, where a whole horseshoe took two, two
+// and 139 (its trailing-edge distances shared); per velocity 71 against four, two and 142. The panels' cores,
+// and so the answers, are those of the reference. A run of panels counts as a strip only if its ends lie on
+// the two lines to rounding (SameStrip); any other lattice is evaluated a panel at a time, as its own strip.
 //
 // The loops run over contiguous arrays without branches (the ground plane is a template argument) and are
 // compiled twice, for the baseline instruction set and for AVX2 with FMA, chosen at run time by what the
 // processor has. An entry is computed by the same instructions whichever thread runs it, so results do not
 // depend on the thread count.
 //
-// InducedVelocityAt evaluates, for a block of target points, every horseshoe's velocity into the rows of a
-// (3 x block) x horseshoes matrix and multiplies it by the circulations (one matrix product per block, run
+// InducedVelocityAt evaluates, for a block of 16 target points, every horseshoe's velocity into the columns of
+// a (3 x 16) x horseshoes matrix and multiplies it by the circulations (one matrix product per block, run
 // sequentially inside its thread; blocks are fixed by target index). When the targets are one point per
 // panel of an exactly mirrored lattice (every mirrored panel's horseshoe and point are the bit-exact
 // reflections of its given panel's, the trailing legs have no sideways component), the reflection
 // S = diag(1, -1, 1) gives the mirrored half for free: a mirrored horseshoe runs the other way across the span,
 // so V_m(j)(S P) = S V_j(P) and V_j(S P) = S V_m(j)(P), and one lying in the plane y = 0 has
 // V_j(S P) = -S V_j(P). The horseshoes are evaluated at the given-half targets only (half the kernel work),
-// each given horseshoe together with its mirror, and the rows hold the sum and the difference of the two: the
+// each given horseshoe together with its mirror, and the columns hold the sum and the difference of the two: the
 // sums times the mean of the pair's circulations and the differences times half their difference give the
 // velocity at P as their sum and at S P as their difference (half the multiplications too).
 #include "skein/influence.hpp"
@@ -99,84 +91,12 @@ SKEIN_ALWAYS_INLINE Term SegmentTerm(double r1x, double r1y, double r1z, double 
   return t;
 }
 
-/// Semi-infinite leg from A along the unit vector d at P: r = P - A with length n (>= kTiny), strength s.
-SKEIN_ALWAYS_INLINE Term SemiInfiniteTerm(double rx, double ry, double rz, double n, double dx, double dy,
-                                          double dz, double eps4, double s) {
-  Term t;
-  t.cx = dy * rz - dz * ry;
-  t.cy = dz * rx - dx * rz;
-  t.cz = dx * ry - dy * rx;
-  const double h2 = t.cx * t.cx + t.cy * t.cy + t.cz * t.cz;
-  t.num = s * kInv4Pi * (n + (rx * dx + ry * dy + rz * dz)) * h2;
-  t.den = std::max(n * (h2 * h2 + eps4), kDenominatorFloor);
-  return t;
-}
-
-SKEIN_ALWAYS_INLINE void AddTerm(const Term& t, double inv_den, double& u, double& v, double& w) {
-  const double f = t.num * inv_den;
-  u += f * t.cx;
-  v += f * t.cy;
-  w += f * t.cz;
-}
-
 /// One horseshoe (infinity -> TA -> A -> B -> TB -> infinity, legs along d) with its per-source constants.
 struct Shoe {
   double ta[3], a[3], b[3], tb[3], d[3];
-  double e[3];  ///< eps^4 |r0|^4 of TA -> A, A -> B, B -> TB
-  double eps4;
+  double eb;    ///< eps^4 |r0|^4 of the bound segment A -> B
+  double eps4;  ///< eps^4, the panel's core (Lattice::core4)
 };
-
-/// |P - T|, never below kTiny.
-SKEIN_ALWAYS_INLINE double DistanceTo(double px, double py, double pz, double tx, double ty, double tz) {
-  const double x = px - tx, y = py - ty, z = pz - tz;
-  return std::max(std::sqrt(x * x + y * y + z * z), kTiny);
-}
-
-/// Velocity at P of a unit horseshoe given by scalars (the same legs, in the same order, as
-/// AddHorseshoeVelocity), with nq = |P - TA| and ns = |P - TB| given (DistanceTo). Adds to (u, v, w). The
-/// five denominators take two divisions, in groups of three and two (see the file comment).
-SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
-                                      double ax, double ay, double az, double bx, double by, double bz,
-                                      double tbx, double tby, double tbz, double e0, double e1, double e2,
-                                      double eps4, double dx, double dy, double dz, double nq, double ns,
-                                      double& u, double& v, double& w) {
-  const double qx = px - tax, qy = py - tay, qz = pz - taz;
-  const double r1x = px - ax, r1y = py - ay, r1z = pz - az;
-  const double r2x = px - bx, r2y = py - by, r2z = pz - bz;
-  const double sx = px - tbx, sy = py - tby, sz = pz - tbz;
-  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
-  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
-  const Term t0 = SemiInfiniteTerm(qx, qy, qz, nq, dx, dy, dz, eps4, -1.0);
-  const Term t1 = SegmentTerm(qx, qy, qz, nq, r1x, r1y, r1z, n1, ax - tax, ay - tay, az - taz, e0);
-  const Term t2 = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, bx - ax, by - ay, bz - az, e1);
-  const Term t3 = SegmentTerm(r2x, r2y, r2z, n2, sx, sy, sz, ns, tbx - bx, tby - by, tbz - bz, e2);
-  const Term t4 = SemiInfiniteTerm(sx, sy, sz, ns, dx, dy, dz, eps4, 1.0);
-  // 1/x, 1/y, 1/z from 1/(x y z), and 1/x, 1/y from 1/(x y).
-  const double d14 = t1.den * t4.den, inv_a = 1.0 / (t0.den * d14);
-  const double inv_b = 1.0 / (t2.den * t3.den);
-  AddTerm(t0, inv_a * d14, u, v, w);
-  AddTerm(t1, inv_a * t0.den * t4.den, u, v, w);
-  AddTerm(t2, inv_b * t3.den, u, v, w);
-  AddTerm(t3, inv_b * t2.den, u, v, w);
-  AddTerm(t4, inv_a * t0.den * t1.den, u, v, w);
-}
-
-/// The same, computing |P - TA| and |P - TB| itself.
-SKEIN_ALWAYS_INLINE void ShoeVelocity(double px, double py, double pz, double tax, double tay, double taz,
-                                      double ax, double ay, double az, double bx, double by, double bz,
-                                      double tbx, double tby, double tbz, double e0, double e1, double e2,
-                                      double eps4, double dx, double dy, double dz, double& u, double& v,
-                                      double& w) {
-  ShoeVelocity(px, py, pz, tax, tay, taz, ax, ay, az, bx, by, bz, tbx, tby, tbz, e0, e1, e2, eps4, dx, dy, dz,
-               DistanceTo(px, py, pz, tax, tay, taz), DistanceTo(px, py, pz, tbx, tby, tbz), u, v, w);
-}
-
-/// Shoe s at P with |P - TA| = nq and |P - TB| = ns given.
-SKEIN_ALWAYS_INLINE void ShoeVelocity(const Shoe& s, double px, double py, double pz, double nq, double ns,
-                                      double& u, double& v, double& w) {
-  ShoeVelocity(px, py, pz, s.ta[0], s.ta[1], s.ta[2], s.a[0], s.a[1], s.a[2], s.b[0], s.b[1], s.b[2], s.tb[0],
-               s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4, s.d[0], s.d[1], s.d[2], nq, ns, u, v, w);
-}
 
 double SegmentConstant(const double* p, const double* q, double eps4) {
   const double x = q[0] - p[0], y = q[1] - p[1], z = q[2] - p[2];
@@ -193,9 +113,7 @@ Shoe MakeShoe(const double* ta, const double* a, const double* b, const double* 
     s.tb[k] = tb[k];
     s.d[k] = d[k];
   }
-  s.e[0] = SegmentConstant(ta, a, eps4);
-  s.e[1] = SegmentConstant(a, b, eps4);
-  s.e[2] = SegmentConstant(b, tb, eps4);
+  s.eb = SegmentConstant(a, b, eps4);
   s.eps4 = eps4;
   return s;
 }
@@ -218,6 +136,37 @@ Shoe GroundImage(const Shoe& s, const WakeGeometry& wake) {
   const auto ga = refl(s.b), gb = refl(s.a), gta = refl(s.tb), gtb = refl(s.ta);
   const double gd[3] = {s.d[0], s.d[1], -s.d[2]};
   return MakeShoe(gta.data(), ga.data(), gb.data(), gtb.data(), gd, s.eps4);
+}
+
+// ---- strips ----------------------------------------------------------------------------------------------
+
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wfloat-equal"
+/// Exact comparison: the mirror path needs bit-exact reflections, not nearly equal ones.
+bool Exactly(double x, double y) { return x == y; }
+#pragma GCC diagnostic pop
+
+/// Whether horseshoe y continues the strip of horseshoe x: the same trailing-edge points bit for bit, y's A
+/// on the line through TA and x's A and y's B on the line through TB and x's B, to rounding. The horseshoes of a
+/// strip's chordwise panels do; both passes share the legs and side edges of such a run (StripFields).
+bool SameStrip(const Shoe& x, const Shoe& y) {
+  for (int k = 0; k < 3; ++k)
+    if (!Exactly(x.ta[k], y.ta[k]) || !Exactly(x.tb[k], y.tb[k])) return false;
+  const auto on_line = [](const double* o, const double* p, const double* q) {
+    const Vec3 u{p[0] - o[0], p[1] - o[1], p[2] - o[2]}, v{q[0] - o[0], q[1] - o[1], q[2] - o[2]};
+    return detail::Norm(detail::Cross(u, v)) <= 1e-13 * detail::Norm(u) * detail::Norm(v);
+  };
+  return on_line(x.ta, x.a, y.a) && on_line(x.tb, x.b, y.b);
+}
+
+/// Unit vectors along the side edges of the strip of horseshoe s: TA -> A and TB -> B.
+void EdgeDirections(const Shoe& s, double* ul, double* ur) {
+  const Vec3 l = detail::Normalized({s.a[0] - s.ta[0], s.a[1] - s.ta[1], s.a[2] - s.ta[2]});
+  const Vec3 r = detail::Normalized({s.b[0] - s.tb[0], s.b[1] - s.tb[1], s.b[2] - s.tb[2]});
+  for (std::size_t k = 0; k < 3; ++k) {
+    ul[k] = l[k];
+    ur[k] = r[k];
+  }
 }
 
 // ---- assembly: a strip's columns, the source fixed, the targets vectorised ------------------------------
@@ -258,7 +207,7 @@ Column ColumnOf(const Shoe& s, const double* ul, const double* ur) {
     c.ur[k] = ur[k];
   }
   c.e = s.eps4;
-  c.eb = s.e[1];
+  c.eb = s.eb;
   return c;
 }
 
@@ -336,6 +285,20 @@ SKEIN_ALWAYS_INLINE void DirectColumnImpl(const TargetArrays& t, const Column& s
   }
 }
 
+/// n . v at target i of a column's horseshoe and of its image, each with its ground image (fields f[0..3]:
+/// those of src, src_ground, img, img_ground).
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void PairAt(const Column& s, const Column& sg, const Column& m, const Column& mg,
+                                const StripFields* f, std::size_t i, double px, double py, double pz, double nx,
+                                double ny, double nz, double& direct, double& image) {
+  direct = ColumnAt(s, f[0], i, px, py, pz, nx, ny, nz);
+  image = ColumnAt(m, f[2], i, px, py, pz, nx, ny, nz);
+  if constexpr (kGround) {
+    direct += ColumnAt(sg, f[1], i, px, py, pz, nx, ny, nz);
+    image += ColumnAt(mg, f[3], i, px, py, pz, nx, ny, nz);
+  }
+}
+
 /// Columns of the symmetric/antisymmetric pair: anti[i] = direct - image for every target, sym[i] = direct +
 /// image for the first n_sym. fields[0..3]: those of src, src_ground, img, img_ground.
 template <bool kGround>
@@ -343,145 +306,191 @@ SKEIN_ALWAYS_INLINE void PairColumnImpl(const TargetArrays& t, const Column& src
                                         const Column& img, const Column& img_ground, const StripFields* fields,
                                         std::size_t n_sym, double* anti, double* sym) {
   const Column s = src, sg = src_ground, m = img, mg = img_ground;
-  const StripFields fs = fields[0], fsg = fields[1], fm = fields[2], fmg = fields[3];
+  const StripFields f[4] = {fields[0], fields[1], fields[2], fields[3]};
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
-#define SKEIN_PAIR_ENTRY                                                                    \
-  double direct = ColumnAt(s, fs, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);             \
-  double image = ColumnAt(m, fm, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);              \
-  if constexpr (kGround) {                                                                  \
-    direct += ColumnAt(sg, fsg, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);               \
-    image += ColumnAt(mg, fmg, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i]);                \
-  }
 #pragma omp simd
   for (std::size_t i = 0; i < n_sym; ++i) {
-    SKEIN_PAIR_ENTRY
+    double direct, image;
+    PairAt<kGround>(s, sg, m, mg, f, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i], direct, image);
     anti[i] = direct - image;
     sym[i] = direct + image;
   }
 #pragma omp simd
   for (std::size_t i = n_sym; i < t.n; ++i) {
-    SKEIN_PAIR_ENTRY
+    double direct, image;
+    PairAt<kGround>(s, sg, m, mg, f, i, px[i], py[i], pz[i], nx[i], ny[i], nz[i], direct, image);
     anti[i] = direct - image;
   }
-#undef SKEIN_PAIR_ENTRY
 }
 
-// ---- velocity pass: one target, the sources vectorised ----------------------------------------------------
+// ---- velocity pass: a block of targets, the sources of a strip ---------------------------------------------
 
-/// Horseshoes as structure of arrays sharing one leg direction.
-struct ShoeTable {
-  enum Field { tax, tay, taz, ax, ay, az, bx, by, bz, tbx, tby, tbz, e0, e1, e2, eps4, kFields };
-  std::array<std::vector<double>, kFields> f;
-  double d[3] = {0.0, 0.0, 0.0};
-  std::size_t size() const { return f[0].size(); }
-  void Add(const Shoe& s) {
-    const double v[kFields] = {s.ta[0], s.ta[1], s.ta[2], s.a[0], s.a[1], s.a[2], s.b[0], s.b[1],
-                               s.b[2],  s.tb[0], s.tb[1], s.tb[2], s.e[0], s.e[1], s.e[2], s.eps4};
-    for (int k = 0; k < kFields; ++k) f[static_cast<std::size_t>(k)].push_back(v[k]);
-    for (int k = 0; k < 3; ++k) d[k] = s.d[k];
-  }
+/// The velocity pass takes its targets kVelocityBlock at a time (a short last block repeats its last point).
+constexpr std::size_t kVelocityBlock = 16;
+constexpr std::size_t kVelocityRows = 3 * kVelocityBlock;  ///< u of the block's targets, then v, then w
+
+struct BlockPoints {
+  alignas(64) double x[kVelocityBlock];
+  alignas(64) double y[kVelocityBlock];
+  alignas(64) double z[kVelocityBlock];
 };
 
-/// Table fields as plain pointers for the vectoriser.
-#define SKEIN_TABLE_POINTERS                                                                                 \
-  using F = ShoeTable::Field;                                                                                \
-  const double *tax = t.f[F::tax].data(), *tay = t.f[F::tay].data(), *taz = t.f[F::taz].data();              \
-  const double *ax = t.f[F::ax].data(), *ay = t.f[F::ay].data(), *az = t.f[F::az].data();                    \
-  const double *bx = t.f[F::bx].data(), *by = t.f[F::by].data(), *bz = t.f[F::bz].data();                    \
-  const double *tbx = t.f[F::tbx].data(), *tby = t.f[F::tby].data(), *tbz = t.f[F::tbz].data();              \
-  const double *e0 = t.f[F::e0].data(), *e1 = t.f[F::e1].data(), *e2 = t.f[F::e2].data();                    \
-  const double* eps4 = t.f[F::eps4].data();                                                                  \
-  const double dx = t.d[0], dy = t.d[1], dz = t.d[2];                                                        \
-  const double *gtax = g.f[F::tax].data(), *gtay = g.f[F::tay].data(), *gtaz = g.f[F::taz].data();           \
-  const double *gax = g.f[F::ax].data(), *gay = g.f[F::ay].data(), *gaz = g.f[F::az].data();                 \
-  const double *gbx = g.f[F::bx].data(), *gby = g.f[F::by].data(), *gbz = g.f[F::bz].data();                 \
-  const double *gtbx = g.f[F::tbx].data(), *gtby = g.f[F::tby].data(), *gtbz = g.f[F::tbz].data();           \
-  const double *ge0 = g.f[F::e0].data(), *ge1 = g.f[F::e1].data(), *ge2 = g.f[F::e2].data();                 \
-  const double gdx = g.d[0], gdy = g.d[1], gdz = g.d[2]
+/// StripFields for the velocity pass, at a block of targets: the legs' and the edges' vectors, where the
+/// assembly keeps only their components along the target's normal.
+struct VelocityFields {
+  alignas(64) double wl[3][kVelocityBlock];
+  alignas(64) double hl[kVelocityBlock];
+  alignas(64) double wr[3][kVelocityBlock];
+  alignas(64) double hr[kVelocityBlock];
+  alignas(64) double gl[kVelocityBlock];
+  alignas(64) double ml[3][kVelocityBlock];
+  alignas(64) double kl[kVelocityBlock];
+  alignas(64) double gr[kVelocityBlock];
+  alignas(64) double mr[3][kVelocityBlock];
+  alignas(64) double kr[kVelocityBlock];
+};
 
-/// Velocity at P of table entry s (and its ground image) into (u, v, w), which start at zero.
-#define SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w)                                                                \
-  ShoeVelocity(px, py, pz, tax[s], tay[s], taz[s], ax[s], ay[s], az[s], bx[s], by[s], bz[s], tbx[s], tby[s],  \
-               tbz[s], e0[s], e1[s], e2[s], eps4[s], dx, dy, dz, u, v, w);                                    \
-  if constexpr (kGround)                                                                                      \
-  ShoeVelocity(px, py, pz, gtax[s], gtay[s], gtaz[s], gax[s], gay[s], gaz[s], gbx[s], gby[s], gbz[s], gtbx[s], \
-               gtby[s], gtbz[s], ge0[s], ge1[s], ge2[s], eps4[s], gdx, gdy, gdz, u, v, w)
-
-/// Velocities at P of the horseshoes first .. last - 1 of `t` (plus their ground images in `g`): ru[s], rv[s],
-/// rw[s].
-template <bool kGround>
-SKEIN_ALWAYS_INLINE void KernelRowImpl(const ShoeTable& t, const ShoeTable& g, std::size_t first,
-                                       std::size_t last, double px, double py, double pz, double* ru, double* rv,
-                                       double* rw) {
-  SKEIN_TABLE_POINTERS;
+SKEIN_ALWAYS_INLINE void VelocityStartImpl(const BlockPoints& p, const Shoe& src, const double* uleft,
+                                           const double* uright, VelocityFields& f) {
+  const Shoe s = src;
+  const double ul[3] = {uleft[0], uleft[1], uleft[2]}, ur[3] = {uright[0], uright[1], uright[2]};
 #pragma omp simd
-  for (std::size_t s = first; s < last; ++s) {
-    double u = 0.0, v = 0.0, w = 0.0;
-    SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w);
-    ru[s] = u;
-    rv[s] = v;
-    rw[s] = w;
+  for (std::size_t i = 0; i < kVelocityBlock; ++i) {
+    const double qx = p.x[i] - s.ta[0], qy = p.y[i] - s.ta[1], qz = p.z[i] - s.ta[2];
+    const double sx = p.x[i] - s.tb[0], sy = p.y[i] - s.tb[1], sz = p.z[i] - s.tb[2];
+    const double inq = 1.0 / std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
+    const double ins = 1.0 / std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
+    const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
+    const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
+    const double h0 = c0x * c0x + c0y * c0y + c0z * c0z, h4 = c4x * c4x + c4y * c4y + c4z * c4z;
+    const double w0 = -kInv4Pi * (1.0 + (qx * s.d[0] + qy * s.d[1] + qz * s.d[2]) * inq) * h0;
+    const double w4 = kInv4Pi * (1.0 + (sx * s.d[0] + sy * s.d[1] + sz * s.d[2]) * ins) * h4;
+    f.wl[0][i] = w0 * c0x;
+    f.wl[1][i] = w0 * c0y;
+    f.wl[2][i] = w0 * c0z;
+    f.hl[i] = h0 * h0;
+    f.wr[0][i] = w4 * c4x;
+    f.wr[1][i] = w4 * c4y;
+    f.wr[2][i] = w4 * c4z;
+    f.hr[i] = h4 * h4;
+    const double mlx = ul[1] * qz - ul[2] * qy, mly = ul[2] * qx - ul[0] * qz, mlz = ul[0] * qy - ul[1] * qx;
+    const double mrx = ur[1] * sz - ur[2] * sy, mry = ur[2] * sx - ur[0] * sz, mrz = ur[0] * sy - ur[1] * sx;
+    const double hl = mlx * mlx + mly * mly + mlz * mlz, hr = mrx * mrx + mry * mry + mrz * mrz;
+    f.gl[i] = (ul[0] * qx + ul[1] * qy + ul[2] * qz) * inq;
+    f.ml[0][i] = kInv4Pi * hl * mlx;
+    f.ml[1][i] = kInv4Pi * hl * mly;
+    f.ml[2][i] = kInv4Pi * hl * mlz;
+    f.kl[i] = hl * hl;
+    f.gr[i] = (ur[0] * sx + ur[1] * sy + ur[2] * sz) * ins;
+    f.mr[0][i] = kInv4Pi * hr * mrx;
+    f.mr[1][i] = kInv4Pi * hr * mry;
+    f.mr[2][i] = kInv4Pi * hr * mrz;
+    f.kr[i] = hr * hr;
   }
 }
 
-/// Mirrored table [given | mirrors | ...]: for s < given, the sum of the velocities at P of entry s and of its
-/// mirror given + s into r[s], their difference into r[given + s].
+/// Velocity at target i of a column's horseshoe from the strip's fields, added to (u, v, w): ColumnAt with
+/// vectors (two square roots, one division).
+SKEIN_ALWAYS_INLINE void ColumnVelocityAt(const Column& c, const VelocityFields& f, std::size_t i, double px,
+                                          double py, double pz, double& u, double& v, double& w) {
+  const double r1x = px - c.a[0], r1y = py - c.a[1], r1z = pz - c.a[2];
+  const double r2x = px - c.b[0], r2y = py - c.b[1], r2z = pz - c.b[2];
+  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
+  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
+  const Term tm = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, c.r0[0], c.r0[1], c.r0[2], c.eb);
+  const double e = c.e;
+  const double fl = f.hl[i] + e, fr = f.hr[i] + e, el = f.kl[i] + e, er = f.kr[i] + e;
+  const double a1 = c.ul[0] * r1x + c.ul[1] * r1y + c.ul[2] * r1z;
+  const double a2 = c.ur[0] * r2x + c.ur[1] * r2y + c.ur[2] * r2z;
+  const double d1 = std::max(fl * fr, kDenominatorFloor);
+  const double d2 = std::max(n1 * n2 * el * er, kDenominatorFloor);
+  const double d3 = tm.den;
+  const double d23 = d2 * d3, inv = 1.0 / (d1 * d23);
+  const double legs = d23 * inv, edges = d1 * d3 * inv;
+  const double sl = fr * legs, sr = fl * legs;
+  const double tl = (f.gl[i] * n1 - a1) * n2 * er * edges, tr = (a2 - f.gr[i] * n2) * n1 * el * edges;
+  const double sb = tm.num * d1 * d2 * inv;
+  u += sl * f.wl[0][i] + sr * f.wr[0][i] + tl * f.ml[0][i] + tr * f.mr[0][i] + sb * tm.cx;
+  v += sl * f.wl[1][i] + sr * f.wr[1][i] + tl * f.ml[1][i] + tr * f.mr[1][i] + sb * tm.cy;
+  w += sl * f.wl[2][i] + sr * f.wr[2][i] + tl * f.ml[2][i] + tr * f.mr[2][i] + sb * tm.cz;
+}
+
+/// Velocities at the block's targets of one source (and its ground image): out[0..kVelocityRows).
 template <bool kGround>
-SKEIN_ALWAYS_INLINE void PairedRowImpl(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px,
-                                       double py, double pz, double* ru, double* rv, double* rw) {
-  SKEIN_TABLE_POINTERS;
+SKEIN_ALWAYS_INLINE void VelocityColumnImpl(const BlockPoints& p, const Column& src, const Column& src_ground,
+                                            const VelocityFields* f, double* out) {
+  const Column s = src, g = src_ground;
 #pragma omp simd
-  for (std::size_t s = 0; s < given; ++s) {
+  for (std::size_t i = 0; i < kVelocityBlock; ++i) {
+    double u = 0.0, v = 0.0, w = 0.0;
+    ColumnVelocityAt(s, f[0], i, p.x[i], p.y[i], p.z[i], u, v, w);
+    if constexpr (kGround) ColumnVelocityAt(g, f[1], i, p.x[i], p.y[i], p.z[i], u, v, w);
+    out[i] = u;
+    out[kVelocityBlock + i] = v;
+    out[2 * kVelocityBlock + i] = w;
+  }
+}
+
+/// A given source and its mirror (each with its ground image; fields f[0..3] in that order): the sums of
+/// their velocities into sum[0..kVelocityRows), the differences into diff.
+template <bool kGround>
+SKEIN_ALWAYS_INLINE void PairedVelocityColumnImpl(const BlockPoints& p, const Column& src,
+                                                  const Column& src_ground, const Column& img,
+                                                  const Column& img_ground, const VelocityFields* f, double* sum,
+                                                  double* diff) {
+  const Column s = src, sg = src_ground, m = img, mg = img_ground;
+#pragma omp simd
+  for (std::size_t i = 0; i < kVelocityBlock; ++i) {
     double u = 0.0, v = 0.0, w = 0.0, um = 0.0, vm = 0.0, wm = 0.0;
-    SKEIN_TABLE_ENTRY_VELOCITY(s, u, v, w);
-    SKEIN_TABLE_ENTRY_VELOCITY(given + s, um, vm, wm);
-    ru[s] = u + um;
-    rv[s] = v + vm;
-    rw[s] = w + wm;
-    ru[given + s] = u - um;
-    rv[given + s] = v - vm;
-    rw[given + s] = w - wm;
+    ColumnVelocityAt(s, f[0], i, p.x[i], p.y[i], p.z[i], u, v, w);
+    if constexpr (kGround) ColumnVelocityAt(sg, f[1], i, p.x[i], p.y[i], p.z[i], u, v, w);
+    ColumnVelocityAt(m, f[2], i, p.x[i], p.y[i], p.z[i], um, vm, wm);
+    if constexpr (kGround) ColumnVelocityAt(mg, f[3], i, p.x[i], p.y[i], p.z[i], um, vm, wm);
+    sum[i] = u + um;
+    sum[kVelocityBlock + i] = v + vm;
+    sum[2 * kVelocityBlock + i] = w + wm;
+    diff[i] = u - um;
+    diff[kVelocityBlock + i] = v - vm;
+    diff[2 * kVelocityBlock + i] = w - wm;
   }
 }
 
 // ---- the product of the velocity pass ------------------------------------------------------------------
 
-/// Y = R G for the kernel rows R (rows x n, row-major, row stride ldr; rows a multiple of kProductRows) and the
-/// circulations G (n x kw, row-major, kw a multiple of kProductCols): Y (rows x kw, row-major). Every entry
-/// is the sum over the sources in their order, so the bits do not depend on the thread that computes it.
-/// Written out (not Eigen's product) so that it is compiled for the processor's instruction set with the
-/// kernels, register-blocked kProductRows x kProductCols.
-constexpr std::size_t kProductRows = 4, kProductCols = 8;
+/// Y += R G for the kernel columns R (kVelocityRows x n, column-major) and the circulations G (n x kw,
+/// row-major, kw a multiple of kProductCols): Y (kVelocityRows x kw, column-major). Every entry is the sum over
+/// the sources in their order, so the bits do not depend on the thread that computes it. Written out (not
+/// Eigen's product) so that it is compiled for the processor's instruction set with the kernels, register-
+/// blocked 12 x 4, over chunks of sources that keep R's and G's share in the core's cache.
+constexpr std::size_t kProductCols = 4, kProductChunk = 256;
 using Lanes = double __attribute__((vector_size(32), aligned(8)));  // four doubles, unaligned access allowed
+static_assert(kVelocityRows % 12 == 0, "the product takes the rows 12 at a time");
 
-SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size_t rows, const double* g,
-                                     std::size_t n, std::size_t kw, double* y) {
-  for (std::size_t i0 = 0; i0 < rows; i0 += kProductRows) {
-    const double *r0 = r + i0 * ldr, *r1 = r0 + ldr, *r2 = r1 + ldr, *r3 = r2 + ldr;
-    for (std::size_t k0 = 0; k0 < kw; k0 += kProductCols) {
-      Lanes a0 = {0, 0, 0, 0}, b0 = a0, a1 = a0, b1 = a0, a2 = a0, b2 = a0, a3 = a0, b3 = a0;
-      const double* gk = g + k0;
-      for (std::size_t j = 0; j < n; ++j) {
-        const Lanes ga = *reinterpret_cast<const Lanes*>(gk + j * kw);
-        const Lanes gb = *reinterpret_cast<const Lanes*>(gk + j * kw + 4);
-        a0 += r0[j] * ga;
-        b0 += r0[j] * gb;
-        a1 += r1[j] * ga;
-        b1 += r1[j] * gb;
-        a2 += r2[j] * ga;
-        b2 += r2[j] * gb;
-        a3 += r3[j] * ga;
-        b3 += r3[j] * gb;
+SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, const double* g, std::size_t n, std::size_t kw, double* y) {
+  for (std::size_t s0 = 0; s0 < n; s0 += kProductChunk) {
+    const std::size_t s1 = std::min(n, s0 + kProductChunk);
+    for (std::size_t i0 = 0; i0 < kVelocityRows; i0 += 12) {
+      for (std::size_t k0 = 0; k0 < kw; k0 += kProductCols) {
+        double* y0 = y + k0 * kVelocityRows + i0;
+        Lanes acc[3][4];
+        for (std::size_t c = 0; c < 4; ++c)
+          for (std::size_t t = 0; t < 3; ++t)
+            acc[t][c] = *reinterpret_cast<const Lanes*>(y0 + c * kVelocityRows + 4 * t);
+        for (std::size_t s = s0; s < s1; ++s) {
+          const double* rs = r + s * kVelocityRows + i0;
+          const Lanes ra = *reinterpret_cast<const Lanes*>(rs), rb = *reinterpret_cast<const Lanes*>(rs + 4),
+                      rc = *reinterpret_cast<const Lanes*>(rs + 8);
+          const double* gs = g + s * kw + k0;
+          for (std::size_t c = 0; c < 4; ++c) {
+            acc[0][c] += ra * gs[c];
+            acc[1][c] += rb * gs[c];
+            acc[2][c] += rc * gs[c];
+          }
+        }
+        for (std::size_t c = 0; c < 4; ++c)
+          for (std::size_t t = 0; t < 3; ++t)
+            *reinterpret_cast<Lanes*>(y0 + c * kVelocityRows + 4 * t) = acc[t][c];
       }
-      double* yk = y + i0 * kw + k0;
-      *reinterpret_cast<Lanes*>(yk) = a0;
-      *reinterpret_cast<Lanes*>(yk + 4) = b0;
-      *reinterpret_cast<Lanes*>(yk + kw) = a1;
-      *reinterpret_cast<Lanes*>(yk + kw + 4) = b1;
-      *reinterpret_cast<Lanes*>(yk + 2 * kw) = a2;
-      *reinterpret_cast<Lanes*>(yk + 2 * kw + 4) = b2;
-      *reinterpret_cast<Lanes*>(yk + 3 * kw) = a3;
-      *reinterpret_cast<Lanes*>(yk + 3 * kw + 4) = b3;
     }
   }
 }
@@ -489,12 +498,11 @@ SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size
 // ---- one instance per instruction set, chosen at run time -------------------------------------------------
 
 /// The kernels compiled for one instruction set (ATTR: a target attribute, or nothing for the baseline).
-#define SKEIN_KERNEL_SET(Name, ATTR)                                                                           \
-  ATTR void Product##Name(const double* r, std::size_t ldr, std::size_t rows, const double* g, std::size_t n, \
-                          std::size_t kw, double* y) {                                                        \
-    ProductImpl(r, ldr, rows, g, n, kw, y);                                                                   \
+#define SKEIN_KERNEL_SET(Name, ATTR)                                                                          \
+  ATTR void Product##Name(const double* r, const double* g, std::size_t n, std::size_t kw, double* y) {       \
+    ProductImpl(r, g, n, kw, y);                                                                              \
   }                                                                                                           \
-  ATTR void StripStart##Name(const TargetArrays& t, const Shoe& s, const double* ul, const double* ur,          \
+  ATTR void StripStart##Name(const TargetArrays& t, const Shoe& s, const double* ul, const double* ur,        \
                              StripFields f) {                                                                 \
     StripStartImpl(t, s, ul, ur, f);                                                                          \
   }                                                                                                           \
@@ -509,15 +517,20 @@ SKEIN_ALWAYS_INLINE void ProductImpl(const double* r, std::size_t ldr, std::size
                              double* sym) {                                                                   \
     PairColumnImpl<kGround>(t, s, sg, m, mg, f, n_sym, anti, sym);                                            \
   }                                                                                                           \
-  template <bool kGround>                                                                                     \
-  ATTR void KernelRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t first, std::size_t last,      \
-                            double px, double py, double pz, double* ru, double* rv, double* rw) {            \
-    KernelRowImpl<kGround>(t, g, first, last, px, py, pz, ru, rv, rw);                                        \
+  ATTR void VelocityStart##Name(const BlockPoints& p, const Shoe& s, const double* ul, const double* ur,      \
+                                VelocityFields& f) {                                                          \
+    VelocityStartImpl(p, s, ul, ur, f);                                                                       \
   }                                                                                                           \
   template <bool kGround>                                                                                     \
-  ATTR void PairedRow##Name(const ShoeTable& t, const ShoeTable& g, std::size_t given, double px, double py,  \
-                            double pz, double* ru, double* rv, double* rw) {                                  \
-    PairedRowImpl<kGround>(t, g, given, px, py, pz, ru, rv, rw);                                              \
+  ATTR void VelocityColumn##Name(const BlockPoints& p, const Column& s, const Column& g,                      \
+                                 const VelocityFields* f, double* out) {                                      \
+    VelocityColumnImpl<kGround>(p, s, g, f, out);                                                             \
+  }                                                                                                           \
+  template <bool kGround>                                                                                     \
+  ATTR void PairedVelocityColumn##Name(const BlockPoints& p, const Column& s, const Column& sg,               \
+                                       const Column& m, const Column& mg, const VelocityFields* f,            \
+                                       double* sum, double* diff) {                                           \
+    PairedVelocityColumnImpl<kGround>(p, s, sg, m, mg, f, sum, diff);                                         \
   }
 
 SKEIN_KERNEL_SET(Base, )
@@ -554,26 +567,28 @@ struct Kernels {
   void (*direct)(const TargetArrays&, const Column&, const Column&, const StripFields*, double*);
   void (*pair)(const TargetArrays&, const Column&, const Column&, const Column&, const Column&, const StripFields*,
                std::size_t, double*, double*);
-  void (*row)(const ShoeTable&, const ShoeTable&, std::size_t, std::size_t, double, double, double, double*,
-              double*, double*);
-  void (*paired)(const ShoeTable&, const ShoeTable&, std::size_t, double, double, double, double*, double*,
-                 double*);
-  void (*product)(const double*, std::size_t, std::size_t, const double*, std::size_t, std::size_t, double*);
+  void (*vstart)(const BlockPoints&, const Shoe&, const double*, const double*, VelocityFields&);
+  void (*vcolumn)(const BlockPoints&, const Column&, const Column&, const VelocityFields*, double*);
+  void (*vpaired)(const BlockPoints&, const Column&, const Column&, const Column&, const Column&,
+                  const VelocityFields*, double*, double*);
+  void (*product)(const double*, const double*, std::size_t, std::size_t, double*);
 };
+
+/// The kernel set compiled for instruction set Name, with or without the ground images.
+#define SKEIN_KERNELS_OF(Name)                                                                                \
+  Kernels{&StripStart##Name,     &DirectColumn##Name<kGround>,         &PairColumn##Name<kGround>,            \
+          &VelocityStart##Name,  &VelocityColumn##Name<kGround>,       &PairedVelocityColumn##Name<kGround>,  \
+          &Product##Name}
 
 template <bool kGround>
 Kernels KernelsFor() {
 #if defined(SKEIN_AVX2_CLONE)
-  if (KernelIsaInUse() == KernelIsa::avx512)
-    return {&StripStartAvx512, &DirectColumnAvx512<kGround>, &PairColumnAvx512<kGround>, &KernelRowAvx512<kGround>,
-            &PairedRowAvx512<kGround>, &ProductAvx512};
-  if (KernelIsaInUse() == KernelIsa::avx2)
-    return {&StripStartAvx2, &DirectColumnAvx2<kGround>, &PairColumnAvx2<kGround>, &KernelRowAvx2<kGround>,
-            &PairedRowAvx2<kGround>, &ProductAvx2};
+  if (KernelIsaInUse() == KernelIsa::avx512) return SKEIN_KERNELS_OF(Avx512);
+  if (KernelIsaInUse() == KernelIsa::avx2) return SKEIN_KERNELS_OF(Avx2);
 #endif
-  return {&StripStartBase, &DirectColumnBase<kGround>, &PairColumnBase<kGround>, &KernelRowBase<kGround>, &PairedRowBase<kGround>,
-          &ProductBase};
+  return SKEIN_KERNELS_OF(Base);
 }
+#undef SKEIN_KERNELS_OF
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
 
 /// Asks the kernel to back a large matrix with transparent huge pages before its first touch (Linux, where
@@ -593,12 +608,6 @@ void AdviseHugePages(Eigen::MatrixXd& m) {
 }
 
 // ---- the mirror plan of the velocity pass --------------------------------------------------------------
-
-#pragma GCC diagnostic push
-#pragma GCC diagnostic ignored "-Wfloat-equal"
-/// Exact comparison: the mirror path needs bit-exact reflections, not nearly equal ones.
-bool Exactly(double x, double y) { return x == y; }
-#pragma GCC diagnostic pop
 
 /// Order of the sources in the velocity pass and the targets it evaluates. Mirrored: order = [given panels |
 /// their mirrors, in the same order | panels in the plane y = 0], and each given target carries its mirror.
@@ -752,23 +761,14 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
   // every A on the line through TA and the run's first A, and every B on the line through TB and its first
   // B, to rounding: a strip's chordwise panels. What they share at a target (StripFields) is computed once per
   // run and block of targets, and a column's arithmetic is the same whichever run or thread it falls in.
-  const auto same_strip = [](const Shoe& x, const Shoe& y) {
-    for (int k = 0; k < 3; ++k)
-      if (!Exactly(x.ta[k], y.ta[k]) || !Exactly(x.tb[k], y.tb[k])) return false;
-    const auto on_line = [](const double* o, const double* p, const double* q) {
-      const Vec3 u{p[0] - o[0], p[1] - o[1], p[2] - o[2]}, v{q[0] - o[0], q[1] - o[1], q[2] - o[2]};
-      return detail::Norm(detail::Cross(u, v)) <= 1e-13 * detail::Norm(u) * detail::Norm(v);
-    };
-    return on_line(x.ta, x.a, y.a) && on_line(x.tb, x.b, y.b);
-  };
   std::vector<std::size_t> run_start;
   for (std::size_t j = 0; j < n; ++j) {
     const bool has_image = split && wide.image[j] >= 0;
     bool joins = j > 0 && !run_start.empty() && has_image == (split && wide.image[j - 1] >= 0) &&
-                 same_strip(LoadShoe(lat, wide.panel[run_start.back()], wake), LoadShoe(lat, wide.panel[j], wake));
+                 SameStrip(LoadShoe(lat, wide.panel[run_start.back()], wake), LoadShoe(lat, wide.panel[j], wake));
     if (joins && has_image)
-      joins = same_strip(LoadShoe(lat, static_cast<std::size_t>(wide.image[run_start.back()]), wake),
-                         LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake));
+      joins = SameStrip(LoadShoe(lat, static_cast<std::size_t>(wide.image[run_start.back()]), wake),
+                        LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake));
     if (!joins) run_start.push_back(j);
   }
   run_start.push_back(n);
@@ -812,17 +812,9 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
           sh[3] = ground ? GroundImage(sh[2], wake) : sh[2];
         }
       }
-      // Unit vectors along the side edges, from the run's first column (any one would do: they lie on a line).
+      // The side edges, from the run's first column (any one would do: its horseshoes' ends lie on them).
       double ul[4][3] = {}, ur[4][3] = {};
-      for (int k = 0; k < variants; ++k) {
-        const Shoe& s0 = shoes[0][static_cast<std::size_t>(k)];
-        const Vec3 l = detail::Normalized({s0.a[0] - s0.ta[0], s0.a[1] - s0.ta[1], s0.a[2] - s0.ta[2]});
-        const Vec3 rr = detail::Normalized({s0.b[0] - s0.tb[0], s0.b[1] - s0.tb[1], s0.b[2] - s0.tb[2]});
-        for (int x = 0; x < 3; ++x) {
-          ul[k][x] = l[static_cast<std::size_t>(x)];
-          ur[k][x] = rr[static_cast<std::size_t>(x)];
-        }
-      }
+      for (int k = 0; k < variants; ++k) EdgeDirections(shoes[0][static_cast<std::size_t>(k)], ul[k], ur[k]);
       for (std::size_t q = 0; q < count; ++q)
         for (int k = 0; k < variants; ++k) {
           const auto kk = static_cast<std::size_t>(k);
@@ -898,21 +890,50 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
                        plan.targets.end());
   }
   const bool ground = wake.ground.enabled;
-  ShoeTable table, table_ground;
-  for (std::size_t j : plan.order) {
-    const Shoe s = LoadShoe(lat, j, wake);
-    table.Add(s);
-    if (ground) table_ground.Add(GroundImage(s, wake));
+  const std::size_t given = plan.given;
+  // The sources in table order with their ground images, their strips (on the mirror path, a strip of given
+  // horseshoes whose mirrors form a strip too: both are evaluated together) and their columns.
+  std::vector<std::array<Shoe, 2>> shoes(ns);
+  for (std::size_t r = 0; r < ns; ++r) {
+    shoes[r][0] = LoadShoe(lat, plan.order[r], wake);
+    shoes[r][1] = ground ? GroundImage(shoes[r][0], wake) : shoes[r][0];
   }
-  if (!ground) table_ground = table;  // read by nothing; keeps the pointers valid
+  struct Run {
+    std::size_t first, last;
+    bool paired;
+    double ul[4][3], ur[4][3];  ///< side edges of the source, its ground image, its mirror, the mirror's image
+  };
+  std::vector<Run> runs;
+  std::vector<std::array<Column, 2>> columns(ns);
+  const auto add_runs = [&](std::size_t from, std::size_t to, bool paired) {
+    for (std::size_t r = from; r < to;) {
+      std::size_t e = r + 1;
+      while (e < to && SameStrip(shoes[r][0], shoes[e][0]) &&
+             (!paired || SameStrip(shoes[given + r][0], shoes[given + e][0])))
+        ++e;
+      Run run{r, e, paired, {}, {}};
+      for (std::size_t v = 0; v < (paired ? 4u : 2u); ++v)
+        EdgeDirections(shoes[r + (v / 2) * given][v % 2], run.ul[v], run.ur[v]);
+      for (std::size_t q = r; q < e; ++q)
+        for (std::size_t v = 0; v < (paired ? 4u : 2u); ++v)
+          columns[q + (v / 2) * given][v % 2] = ColumnOf(shoes[q + (v / 2) * given][v % 2], run.ul[v], run.ur[v]);
+      runs.push_back(run);
+      r = e;
+    }
+  };
+  if (plan.mirrored) {
+    add_runs(0, given, true);
+    add_runs(2 * given, ns, false);
+  } else {
+    add_runs(0, ns, false);
+  }
   // Circulations in table order, row-major and padded with zero columns to a multiple of kProductCols.
-  // Mirrored (see the file comment): with the rows holding, per given horseshoe, the sum and the difference of
-  // its and its mirror's velocities, and then the centre-line ones, the velocity at a given point is X + Y and
-  // at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences . (g_given -
-  // g_mirror) / 2 + centre-line . g_centre.
+  // Mirrored (see the file comment): with the kernel columns holding, per given horseshoe, the sum and the
+  // difference of its and its mirror's velocities, and then the centre-line ones, the velocity at a given
+  // point is X + Y and at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences .
+  // (g_given - g_mirror) / 2 + centre-line . g_centre.
   const auto kk = static_cast<std::size_t>(k);
   const std::size_t kw = (kk + kProductCols - 1) / kProductCols * kProductCols;
-  const std::size_t given = plan.given;
   const auto circulation = [&](std::size_t r, std::size_t c) {
     return gamma(static_cast<Eigen::Index>(plan.order[r]), static_cast<Eigen::Index>(c));
   };
@@ -931,60 +952,65 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   }
 
   const Kernels kernels = KernelsFor(ground);
-  constexpr std::size_t kBlock = 16;
-  static_assert((3 * kBlock) % kProductRows == 0, "the product takes whole groups of rows");
   const std::size_t nt = plan.targets.size();
-  const auto nblocks = static_cast<std::ptrdiff_t>((nt + kBlock - 1) / kBlock);
-  using RowMatrix = Eigen::Matrix<double, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
+  const auto nblocks = static_cast<std::ptrdiff_t>((nt + kVelocityBlock - 1) / kVelocityBlock);
 #pragma omp parallel
   {
-    // Zeroed once: a last, short block's product also reads the rows past its own (their results unused).
-    RowMatrix rows = RowMatrix::Zero(static_cast<Eigen::Index>(3 * kBlock), static_cast<Eigen::Index>(ns));
-    std::vector<double> x(3 * kBlock * kw, 0.0), y(3 * kBlock * kw, 0.0);
+    // Kernel columns (kVelocityRows x ns, column-major) and the products, per thread.
+    std::vector<double> rows(kVelocityRows * ns), x(kVelocityRows * kw), y(kVelocityRows * kw);
+    BlockPoints block;
+    VelocityFields fields[4];
 #pragma omp for schedule(dynamic, 1)
     for (std::ptrdiff_t blk = 0; blk < nblocks; ++blk) {
-      const std::size_t first = static_cast<std::size_t>(blk) * kBlock;
-      const std::size_t count = std::min(kBlock, nt - first);
-      const auto c = static_cast<Eigen::Index>(count);
-      for (std::size_t q = 0; q < count; ++q) {
-        const std::size_t p = plan.targets[first + q].first;
-        const auto qi = static_cast<Eigen::Index>(q);
-        double *ru = rows.row(qi).data(), *rv = rows.row(c + qi).data(), *rw = rows.row(2 * c + qi).data();
-        if (plan.mirrored) {
-          kernels.paired(table, table_ground, plan.given, points.x[p], points.y[p], points.z[p], ru, rv, rw);
-          kernels.row(table, table_ground, 2 * plan.given, ns, points.x[p], points.y[p], points.z[p], ru, rv, rw);
-        } else {
-          kernels.row(table, table_ground, 0, ns, points.x[p], points.y[p], points.z[p], ru, rv, rw);
+      const std::size_t first = static_cast<std::size_t>(blk) * kVelocityBlock;
+      const std::size_t count = std::min(kVelocityBlock, nt - first);
+      for (std::size_t q = 0; q < kVelocityBlock; ++q) {
+        const std::size_t p = plan.targets[first + std::min(q, count - 1)].first;
+        block.x[q] = points.x[p];
+        block.y[q] = points.y[p];
+        block.z[q] = points.z[p];
+      }
+      for (const Run& run : runs) {
+        for (std::size_t v = 0; v < (run.paired ? 4u : 2u); ++v)
+          if (ground || v % 2 == 0)
+            kernels.vstart(block, shoes[run.first + (v / 2) * given][v % 2], run.ul[v], run.ur[v], fields[v]);
+        for (std::size_t r = run.first; r < run.last; ++r) {
+          if (run.paired)
+            kernels.vpaired(block, columns[r][0], columns[r][1], columns[given + r][0], columns[given + r][1], fields,
+                            rows.data() + r * kVelocityRows, rows.data() + (given + r) * kVelocityRows);
+          else
+            kernels.vcolumn(block, columns[r][0], columns[r][1], fields, rows.data() + r * kVelocityRows);
         }
       }
-      const std::size_t nrows = (3 * count + kProductRows - 1) / kProductRows * kProductRows;
+      std::fill(x.begin(), x.end(), 0.0);
+      std::fill(y.begin(), y.end(), 0.0);
       if (plan.mirrored) {
-        kernels.product(rows.data(), ns, nrows, g_first.data(), given, kw, x.data());
-        kernels.product(rows.data() + given, ns, nrows, g_second.data(), ns - given, kw, y.data());
+        kernels.product(rows.data(), g_first.data(), given, kw, x.data());
+        kernels.product(rows.data() + given * kVelocityRows, g_second.data(), ns - given, kw, y.data());
       } else {
-        kernels.product(rows.data(), ns, nrows, g_first.data(), ns, kw, y.data());
+        kernels.product(rows.data(), g_first.data(), ns, kw, y.data());
       }
       for (std::size_t q = 0; q < count; ++q) {
         const auto [p, m] = plan.targets[first + q];
         const auto pi = static_cast<Eigen::Index>(p);
-        const double *xu = x.data() + q * kw, *xv = xu + count * kw, *xw = xv + count * kw;
-        const double *yu = y.data() + q * kw, *yv = yu + count * kw, *yw = yv + count * kw;
         for (Eigen::Index col = 0; col < k; ++col) {
-          const auto cc = static_cast<std::size_t>(col);
+          const std::size_t at = static_cast<std::size_t>(col) * kVelocityRows + q;
+          const double yu = y[at], yv = y[at + kVelocityBlock], yw = y[at + 2 * kVelocityBlock];
           if (!plan.mirrored) {
-            out.u(pi, col) = yu[cc];
-            out.v(pi, col) = yv[cc];
-            out.w(pi, col) = yw[cc];
+            out.u(pi, col) = yu;
+            out.v(pi, col) = yv;
+            out.w(pi, col) = yw;
             continue;
           }
-          out.u(pi, col) = xu[cc] + yu[cc];
-          out.v(pi, col) = xv[cc] + yv[cc];
-          out.w(pi, col) = xw[cc] + yw[cc];
+          const double xu = x[at], xv = x[at + kVelocityBlock], xw = x[at + 2 * kVelocityBlock];
+          out.u(pi, col) = xu + yu;
+          out.v(pi, col) = xv + yv;
+          out.w(pi, col) = xw + yw;
           if (m < 0) continue;
           const auto mi = static_cast<Eigen::Index>(m);
-          out.u(mi, col) = xu[cc] - yu[cc];
-          out.v(mi, col) = yv[cc] - xv[cc];
-          out.w(mi, col) = xw[cc] - yw[cc];
+          out.u(mi, col) = xu - yu;
+          out.v(mi, col) = yv - xv;
+          out.w(mi, col) = xw - yw;
         }
       }
     }

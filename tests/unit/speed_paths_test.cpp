@@ -291,8 +291,8 @@ TEST(SpeedPaths, AssemblyMatchesReferenceAcrossBlocksOfTargets) {
   ExpectAssemblyMatches(lat, XAxisWake(), true, 2, "half model pair");
 }
 
-TEST(SpeedPaths, AssemblyMatchesReferenceWhenAStripsPanelsAreNotInLine) {
-  // The assembly shares a strip's legs and side edges between its panels only while their bound-segment ends
+TEST(SpeedPaths, BothPassesMatchTheReferenceWhenAStripsPanelsAreNotInLine) {
+  // Both passes share a strip's legs and side edges between its panels only while their bound-segment ends
   // lie on the lines through the trailing-edge points; a lattice whose panel ends leave those lines (here, one
   // panel's end moved up by a tenth of its chord) must still give the reference answers, whole strips or not.
   Lattice lat = BuildLattice(CaseOf({Wing(6, 10, false, 0.3)}));
@@ -301,6 +301,10 @@ TEST(SpeedPaths, AssemblyMatchesReferenceWhenAStripsPanelsAreNotInLine) {
   lat.a.z[j] += 0.1 * lat.strips[4].chord / st.panels;
   ExpectAssemblyMatches(lat, XAxisWake(), false, 1, "one panel's end out of line");
   ExpectAssemblyMatches(lat, XAxisWake(true), false, 1, "one panel's end out of line, ground plane");
+  ExpectVelocityMatches(lat, BoundMidpoints(lat), XAxisWake(), "velocity, one panel's end out of line");
+  PointArray over_the_wing = ScatteredPoints(41);  // they pass through the wing's side, y > 0
+  for (double& y : over_the_wing.y) y = -y;
+  ExpectVelocityMatches(lat, over_the_wing, XAxisWake(true), "velocity, out of line, ground plane");
 }
 
 // ---- induced velocity ------------------------------------------------------------------------------------
