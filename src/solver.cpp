@@ -291,41 +291,62 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
   // Factorise each system once (in place: no second copy of the matrix), then solve column blocks with it.
   std::vector<std::unique_ptr<InPlaceLu>> lus(out.layouts.size());
   auto solve_columns = [&](Eigen::Index first, Eigen::Index count) {
-    for (std::size_t l = 0; l < out.layouts.size(); ++l) {
+    const std::size_t nl = out.layouts.size();
+    std::vector<Eigen::MatrixXd> b(nl), x(nl);
+    std::vector<double> rcond(nl, 1.0);
+    std::vector<std::pair<std::size_t, bool>> tasks;  // (system, true: its condition estimate / false: its solve)
+    for (std::size_t l = 0; l < nl; ++l) {
       const SystemLayout& lay = out.layouts[l];
       const auto m = static_cast<Eigen::Index>(lay.panel.size());
       out.unknowns = std::max(out.unknowns, lay.panel.size());
       if (m == 0) continue;
       // Right-hand side of this system: the symmetric or antisymmetric part of the full one.
-      Eigen::MatrixXd b(m, count);
+      b[l].resize(m, count);
       for (Eigen::Index i = 0; i < m; ++i) {
         const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
         const int img = lay.image[static_cast<std::size_t>(i)];
         if (lay.kind == SystemLayout::Kind::full || img < 0) {
-          b.row(i) = rhs.block(p, first, 1, count);
+          b[l].row(i) = rhs.block(p, first, 1, count);
         } else {
           const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
-          b.row(i) = 0.5 * (rhs.block(p, first, 1, count) + s * rhs.block(img, first, 1, count));
+          b[l].row(i) = 0.5 * (rhs.block(p, first, 1, count) + s * rhs.block(img, first, 1, count));
         }
       }
       if (!lus[l]) {
         t0 = Clock::now();
-        lus[l] = std::make_unique<InPlaceLu>(mats[l]);
+        lus[l] = std::make_unique<InPlaceLu>(mats[l]);  // dgetrf on every thread
         out.seconds_factorise += Since(t0);
-        t0 = Clock::now();  // the condition estimate uses the factors, as the solves do: timed with them
-        out.rcond = std::min(out.rcond, lus[l]->Rcond());
-        out.seconds_solve += Since(t0);
+        tasks.emplace_back(l, true);
       }
-      t0 = Clock::now();
-      const Eigen::MatrixXd x = lus[l]->Solve(b);
-      out.seconds_solve += Since(t0);
-      for (Eigen::Index i = 0; i < m; ++i) {
+      tasks.emplace_back(l, false);
+    }
+    // The condition estimates (they use the factors, as the solves do: timed with them) and the solves are
+    // independent tasks on one OpenBLAS thread each, run side by side on the OpenMP threads: a task's
+    // arithmetic is the same whichever thread takes it, so the bits do not depend on the thread count.
+    t0 = Clock::now();
+    {
+      const ScopedBlasThreads one(1);  // here, not inside the tasks: they would restore each other's setting
+      const auto ntasks = static_cast<std::ptrdiff_t>(tasks.size());
+#pragma omp parallel for schedule(dynamic, 1)
+      for (std::ptrdiff_t t = 0; t < ntasks; ++t) {
+        const auto [l, condition] = tasks[static_cast<std::size_t>(t)];
+        if (condition)
+          rcond[l] = lus[l]->Rcond();
+        else
+          x[l] = lus[l]->Solve(b[l]);
+      }
+    }
+    out.seconds_solve += Since(t0);
+    for (std::size_t l = 0; l < nl; ++l) {
+      const SystemLayout& lay = out.layouts[l];
+      out.rcond = std::min(out.rcond, rcond[l]);
+      for (Eigen::Index i = 0; i < x[l].rows(); ++i) {
         const auto p = static_cast<Eigen::Index>(lay.panel[static_cast<std::size_t>(i)]);
         const int img = lay.image[static_cast<std::size_t>(i)];
-        out.gamma.block(p, first, 1, count) += x.row(i);
+        out.gamma.block(p, first, 1, count) += x[l].row(i);
         if (lay.kind != SystemLayout::Kind::full && img >= 0) {
           const double s = lay.kind == SystemLayout::Kind::symmetric ? 1.0 : -1.0;
-          out.gamma.block(img, first, 1, count) += s * x.row(i);
+          out.gamma.block(img, first, 1, count) += s * x[l].row(i);
         }
       }
     }
