@@ -72,6 +72,8 @@ namespace {
 
 /// Smallest denominator of a term's factor (see the file comment): three of them multiply to a normal number.
 constexpr double kDenominatorFloor = 1e-100;
+/// Smallest distance whose inverse the strip fields take, m: two of them multiply to a normal number.
+constexpr double kTinyDistance = 1e-150;
 
 /// Finite segment from A to B at P: r1 = P - A, r2 = P - B with lengths n1, n2 (>= kTiny), r0 = B - A,
 /// e = eps^4 |r0|^4. Its cross product c and the numerator and denominator of its factor f = num / den.
@@ -221,8 +223,12 @@ SKEIN_ALWAYS_INLINE void StripStartImpl(const TargetArrays& t, const Shoe& src, 
   for (std::size_t i = 0; i < t.n; ++i) {
     const double qx = px[i] - s.ta[0], qy = py[i] - s.ta[1], qz = pz[i] - s.ta[2];
     const double sx = px[i] - s.tb[0], sy = py[i] - s.tb[1], sz = pz[i] - s.tb[2];
-    const double inq = 1.0 / std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
-    const double ins = 1.0 / std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
+    // 1/|P - TA| and 1/|P - TB| from one division (GCC 12 leaves this loop scalar with two, or with a floor
+    // on the product). The distances' floor keeps the product normal; a target on TA (or TB) has r = 0 there,
+    // so the large inverse it gets multiplies zero.
+    const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTinyDistance);
+    const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTinyDistance);
+    const double inv = 1.0 / (nq * ns), inq = ns * inv, ins = nq * inv;
     // Semi-infinite legs: c = d x r.
     const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
     const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
@@ -358,8 +364,12 @@ SKEIN_ALWAYS_INLINE void VelocityStartImpl(const BlockPoints& p, const Shoe& src
   for (std::size_t i = 0; i < kVelocityBlock; ++i) {
     const double qx = p.x[i] - s.ta[0], qy = p.y[i] - s.ta[1], qz = p.z[i] - s.ta[2];
     const double sx = p.x[i] - s.tb[0], sy = p.y[i] - s.tb[1], sz = p.z[i] - s.tb[2];
-    const double inq = 1.0 / std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTiny);
-    const double ins = 1.0 / std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTiny);
+    // 1/|P - TA| and 1/|P - TB| from one division (GCC 12 leaves this loop scalar with two, or with a floor
+    // on the product). The distances' floor keeps the product normal; a target on TA (or TB) has r = 0 there,
+    // so the large inverse it gets multiplies zero.
+    const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTinyDistance);
+    const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTinyDistance);
+    const double inv = 1.0 / (nq * ns), inq = ns * inv, ins = nq * inv;
     const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
     const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
     const double h0 = c0x * c0x + c0y * c0y + c0z * c0z, h4 = c4x * c4x + c4y * c4y + c4z * c4z;
@@ -932,10 +942,16 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   // difference of its and its mirror's velocities, and then the centre-line ones, the velocity at a given
   // point is X + Y and at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences .
   // (g_given - g_mirror) / 2 + centre-line . g_centre.
-  const auto kk = static_cast<std::size_t>(k);
+  // A column of exactly zero circulations (a lateral one that was not solved) induces nothing: it stays out of
+  // the product, and its velocities zero. Each column's sums are its own, so the others' bits do not change.
+  std::vector<Eigen::Index> live;
+  for (Eigen::Index c = 0; c < k; ++c)
+    if (!(gamma.col(c).array() == 0.0).all()) live.push_back(c);
+  if (live.empty()) return out;
+  const std::size_t kk = live.size();
   const std::size_t kw = (kk + kProductCols - 1) / kProductCols * kProductCols;
   const auto circulation = [&](std::size_t r, std::size_t c) {
-    return gamma(static_cast<Eigen::Index>(plan.order[r]), static_cast<Eigen::Index>(c));
+    return gamma(static_cast<Eigen::Index>(plan.order[r]), live[c]);
   };
   std::vector<double> g_first(plan.mirrored ? given * kw : ns * kw, 0.0);
   std::vector<double> g_second(plan.mirrored ? (ns - given) * kw : 0, 0.0);
@@ -993,8 +1009,9 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
       for (std::size_t q = 0; q < count; ++q) {
         const auto [p, m] = plan.targets[first + q];
         const auto pi = static_cast<Eigen::Index>(p);
-        for (Eigen::Index col = 0; col < k; ++col) {
-          const std::size_t at = static_cast<std::size_t>(col) * kVelocityRows + q;
+        for (std::size_t c = 0; c < kk; ++c) {
+          const Eigen::Index col = live[c];
+          const std::size_t at = c * kVelocityRows + q;
           const double yu = y[at], yv = y[at + kVelocityBlock], yw = y[at + 2 * kVelocityBlock];
           if (!plan.mirrored) {
             out.u(pi, col) = yu;
