@@ -937,35 +937,43 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   } else {
     add_runs(0, ns, false);
   }
-  // Circulations in table order, row-major and padded with zero columns to a multiple of kProductCols.
-  // Mirrored (see the file comment): with the kernel columns holding, per given horseshoe, the sum and the
-  // difference of its and its mirror's velocities, and then the centre-line ones, the velocity at a given
-  // point is X + Y and at its mirror X - Y (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences .
-  // (g_given - g_mirror) / 2 + centre-line . g_centre.
-  // A column of exactly zero circulations (a lateral one that was not solved) induces nothing: it stays out of
-  // the product, and its velocities zero. Each column's sums are its own, so the others' bits do not change.
-  std::vector<Eigen::Index> live;
-  for (Eigen::Index c = 0; c < k; ++c)
-    if (!(gamma.col(c).array() == 0.0).all()) live.push_back(c);
-  if (live.empty()) return out;
-  const std::size_t kk = live.size();
-  const std::size_t kw = (kk + kProductCols - 1) / kProductCols * kProductCols;
-  const auto circulation = [&](std::size_t r, std::size_t c) {
-    return gamma(static_cast<Eigen::Index>(plan.order[r]), live[c]);
+  // The products' weights, row-major, a row per source in table order. Mirrored (see the file comment): with
+  // the kernel columns holding, per given horseshoe, the sum and the difference of its and its mirror's
+  // velocities, and then the centre-line ones, the velocity at a given point is X + Y and at its mirror X - Y
+  // (v: Y - X), X = sums . (g_given + g_mirror) / 2, Y = differences . (g_given - g_mirror) / 2 + centre-line .
+  // g_centre. A circulation column that is exactly zero in a product's weights induces nothing there and stays
+  // out of it: a symmetric flow's differences, an antisymmetric one's sums, a lateral column that was not
+  // solved. Each column's sums are its own, so the other columns' bits do not change.
+  struct Weights {
+    std::vector<Eigen::Index> live;  ///< the circulation columns kept, in order
+    std::size_t kw = 0;              ///< their number padded to a multiple of kProductCols
+    std::vector<double> g;           ///< rows x kw
   };
-  std::vector<double> g_first(plan.mirrored ? given * kw : ns * kw, 0.0);
-  std::vector<double> g_second(plan.mirrored ? (ns - given) * kw : 0, 0.0);
-  for (std::size_t c = 0; c < kk; ++c) {
-    if (!plan.mirrored) {
-      for (std::size_t r = 0; r < ns; ++r) g_first[r * kw + c] = circulation(r, c);
-      continue;
+  const auto circulation = [&](std::size_t r, Eigen::Index c) {
+    return gamma(static_cast<Eigen::Index>(plan.order[r]), c);
+  };
+  const auto weights = [&](std::size_t rows, const auto& value) {
+    Weights w;
+    for (Eigen::Index c = 0; c < k; ++c) {
+      bool zero = true;
+      for (std::size_t r = 0; r < rows && zero; ++r) zero = Exactly(value(r, c), 0.0);
+      if (!zero) w.live.push_back(c);
     }
-    for (std::size_t r = 0; r < given; ++r) {
-      g_first[r * kw + c] = 0.5 * (circulation(r, c) + circulation(given + r, c));
-      g_second[r * kw + c] = 0.5 * (circulation(r, c) - circulation(given + r, c));
-    }
-    for (std::size_t r = 2 * given; r < ns; ++r) g_second[(r - given) * kw + c] = circulation(r, c);
-  }
+    w.kw = (w.live.size() + kProductCols - 1) / kProductCols * kProductCols;
+    w.g.assign(rows * w.kw, 0.0);
+    for (std::size_t j = 0; j < w.live.size(); ++j)
+      for (std::size_t r = 0; r < rows; ++r) w.g[r * w.kw + j] = value(r, w.live[j]);
+    return w;
+  };
+  const auto mean = [&](std::size_t r, Eigen::Index c) {
+    return 0.5 * (circulation(r, c) + circulation(given + r, c));
+  };
+  const auto half_difference = [&](std::size_t r, Eigen::Index c) {
+    return r < given ? 0.5 * (circulation(r, c) - circulation(given + r, c)) : circulation(given + r, c);
+  };
+  const Weights first_w = plan.mirrored ? weights(given, mean) : weights(ns, circulation);
+  const Weights second_w = plan.mirrored ? weights(ns - given, half_difference) : Weights{};
+  if (first_w.live.empty() && second_w.live.empty()) return out;
 
   const Kernels kernels = KernelsFor(ground);
   const std::size_t nt = plan.targets.size();
@@ -973,7 +981,7 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
 #pragma omp parallel
   {
     // Kernel columns (kVelocityRows x ns, column-major) and the products, per thread.
-    std::vector<double> rows(kVelocityRows * ns), x(kVelocityRows * kw), y(kVelocityRows * kw);
+    std::vector<double> rows(kVelocityRows * ns), x(kVelocityRows * first_w.kw), y(kVelocityRows * second_w.kw);
     BlockPoints block;
     VelocityFields fields[4];
 #pragma omp for schedule(dynamic, 1)
@@ -1000,34 +1008,37 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
       }
       std::fill(x.begin(), x.end(), 0.0);
       std::fill(y.begin(), y.end(), 0.0);
-      if (plan.mirrored) {
-        kernels.product(rows.data(), g_first.data(), given, kw, x.data());
-        kernels.product(rows.data() + given * kVelocityRows, g_second.data(), ns - given, kw, y.data());
-      } else {
-        kernels.product(rows.data(), g_first.data(), ns, kw, y.data());
-      }
+      const std::size_t n_first = plan.mirrored ? given : ns;
+      if (first_w.kw > 0) kernels.product(rows.data(), first_w.g.data(), n_first, first_w.kw, x.data());
+      if (second_w.kw > 0)
+        kernels.product(rows.data() + given * kVelocityRows, second_w.g.data(), ns - given, second_w.kw, y.data());
+      // Into the zeroed output, X and then Y: 0 + X + Y has the bits of X + Y.
       for (std::size_t q = 0; q < count; ++q) {
         const auto [p, m] = plan.targets[first + q];
-        const auto pi = static_cast<Eigen::Index>(p);
-        for (std::size_t c = 0; c < kk; ++c) {
-          const Eigen::Index col = live[c];
-          const std::size_t at = c * kVelocityRows + q;
-          const double yu = y[at], yv = y[at + kVelocityBlock], yw = y[at + 2 * kVelocityBlock];
-          if (!plan.mirrored) {
-            out.u(pi, col) = yu;
-            out.v(pi, col) = yv;
-            out.w(pi, col) = yw;
-            continue;
-          }
+        const auto pi = static_cast<Eigen::Index>(p), mi = static_cast<Eigen::Index>(m);
+        for (std::size_t j = 0; j < first_w.live.size(); ++j) {
+          const Eigen::Index col = first_w.live[j];
+          const std::size_t at = j * kVelocityRows + q;
           const double xu = x[at], xv = x[at + kVelocityBlock], xw = x[at + 2 * kVelocityBlock];
-          out.u(pi, col) = xu + yu;
-          out.v(pi, col) = xv + yv;
-          out.w(pi, col) = xw + yw;
+          out.u(pi, col) += xu;
+          out.v(pi, col) += xv;
+          out.w(pi, col) += xw;
+          if (!plan.mirrored || m < 0) continue;
+          out.u(mi, col) += xu;
+          out.v(mi, col) -= xv;
+          out.w(mi, col) += xw;
+        }
+        for (std::size_t j = 0; j < second_w.live.size(); ++j) {
+          const Eigen::Index col = second_w.live[j];
+          const std::size_t at = j * kVelocityRows + q;
+          const double yu = y[at], yv = y[at + kVelocityBlock], yw = y[at + 2 * kVelocityBlock];
+          out.u(pi, col) += yu;
+          out.v(pi, col) += yv;
+          out.w(pi, col) += yw;
           if (m < 0) continue;
-          const auto mi = static_cast<Eigen::Index>(m);
-          out.u(mi, col) = xu - yu;
-          out.v(mi, col) = yv - xv;
-          out.w(mi, col) = xw - yw;
+          out.u(mi, col) -= yu;
+          out.v(mi, col) += yv;
+          out.w(mi, col) -= yw;
         }
       }
     }

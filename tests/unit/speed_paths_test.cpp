@@ -376,6 +376,29 @@ TEST(SpeedPaths, VelocityAtTheAskedPointsOnly) {
   }
 }
 
+TEST(SpeedPaths, VelocityOfEachColumnIsItsOwnWhateverTheOtherColumns) {
+  // The velocity pass leaves out of each product the columns that are zero there (a symmetric column has no
+  // mirror differences, an antisymmetric one no sums, an unsolved one neither); a column's velocities must not
+  // depend on which other columns came with it, to the bit, and must still match the reference.
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14)}));  // mirrored, no centre-line surface
+  const PointArray mid = BoundMidpoints(lat);
+  ASSERT_TRUE(InducedVelocityUsesMirror(lat, mid, XAxisWake()));
+  Eigen::MatrixXd gamma = SomeCirculations(lat, 5);  // column 0 symmetric, 1 antisymmetric
+  gamma.col(3).setZero();
+  const InducedVelocity all = InducedVelocityAt(lat, mid, gamma, XAxisWake());
+  const InducedVelocity ref = ReferenceVelocity(lat, mid, gamma, XAxisWake());
+  EXPECT_LE(WorstColumnError(all.u, ref.u), kRelative);
+  EXPECT_LE(WorstColumnError(all.v, ref.v), kRelative);
+  EXPECT_LE(WorstColumnError(all.w, ref.w), kRelative);
+  EXPECT_TRUE(all.u.col(3).isZero(0.0) && all.v.col(3).isZero(0.0) && all.w.col(3).isZero(0.0));
+  for (Eigen::Index c = 0; c < gamma.cols(); ++c) {
+    const InducedVelocity one = InducedVelocityAt(lat, mid, gamma.col(c), XAxisWake());
+    EXPECT_TRUE(BitIdentical(one.u, all.u.col(c))) << "column " << c;
+    EXPECT_TRUE(BitIdentical(one.v, all.v.col(c))) << "column " << c;
+    EXPECT_TRUE(BitIdentical(one.w, all.w.col(c))) << "column " << c;
+  }
+}
+
 TEST(SpeedPaths, VelocityOfNoColumnsOrNoPointsIsEmpty) {
   const Lattice lat = BuildLattice(CaseOf({Wing(3, 4)}));
   const InducedVelocity none = InducedVelocityAt(lat, BoundMidpoints(lat), Eigen::MatrixXd(static_cast<Eigen::Index>(lat.panels()), 0),
