@@ -974,6 +974,20 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   const Weights first_w = plan.mirrored ? weights(given, mean) : weights(ns, circulation);
   const Weights second_w = plan.mirrored ? weights(ns - given, half_difference) : Weights{};
   if (first_w.live.empty() && second_w.live.empty()) return out;
+  // A source whose weights are zero in both products induces nothing (the centre-line fin's, when only
+  // symmetric columns were solved): a strip of such sources is not evaluated, its kernel columns stay zero
+  // from the start, and they add zero to the products.
+  const auto zero_row = [](const Weights& w, std::size_t r) {
+    for (std::size_t j = 0; j < w.kw; ++j)
+      if (!Exactly(w.g[r * w.kw + j], 0.0)) return false;
+    return true;
+  };
+  std::vector<bool> idle(runs.size(), true);
+  for (std::size_t i = 0; i < runs.size(); ++i)
+    for (std::size_t r = runs[i].first; r < runs[i].last && idle[i]; ++r)
+      idle[i] = !plan.mirrored          ? zero_row(first_w, r)
+                : runs[i].paired        ? zero_row(first_w, r) && zero_row(second_w, r)
+                                        : zero_row(second_w, r - given);
 
   const Kernels kernels = KernelsFor(ground);
   const std::size_t nt = plan.targets.size();
@@ -994,7 +1008,9 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
         block.y[q] = points.y[p];
         block.z[q] = points.z[p];
       }
-      for (const Run& run : runs) {
+      for (std::size_t i = 0; i < runs.size(); ++i) {
+        if (idle[i]) continue;
+        const Run& run = runs[i];
         for (std::size_t v = 0; v < (run.paired ? 4u : 2u); ++v)
           if (ground || v % 2 == 0)
             kernels.vstart(block, shoes[run.first + (v / 2) * given][v % 2], run.ul[v], run.ur[v], fields[v]);

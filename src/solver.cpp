@@ -430,7 +430,12 @@ BasisSolution SolveBasis(const Lattice& physical, const Vec3& moment_point, cons
     mid.y[i] = 0.5 * (lat.a.y[i] + lat.b.y[i]);
     mid.z[i] = 0.5 * (lat.a.z[i] + lat.b.z[i]);
   }
-  out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, swake);
+  // Only where some column's circulation is nonzero: a panel with none carries no load whatever the velocity
+  // there (the centre-line fin when only the symmetric system was solved), and its velocities stay zero.
+  std::vector<bool> loaded(lat.panels());
+  for (std::size_t i = 0; i < lat.panels(); ++i)
+    loaded[i] = !(out.gamma.row(static_cast<Eigen::Index>(i)).array() == 0.0).all();
+  out.bound_velocity = InducedVelocityAt(lat, mid, out.gamma, swake, &loaded);
   out.bound_velocity.u /= beta;  // u = d(phi)/dx = (d(phi)/dx') / beta
   out.trefftz_kernel = TrefftzKernel(physical, wake);  // in the physical axes, as ComputeLoads reads it
   out.seconds_velocity += Since(t0);

@@ -119,7 +119,9 @@ struct BasisSolution {
   /// Columns: the six flow-basis fields, then six per control (control m: columns 6 (m + 1) .. 6 (m + 1) + 5,
   /// the derivative of the basis circulations with respect to that control's deflection, per radian).
   Eigen::MatrixXd gamma;  ///< panels x columns
-  InducedVelocity bound_velocity;  ///< at the bound-vortex midpoints, panels x columns
+  /// At the bound-vortex midpoints, panels x columns; zero at a panel whose circulation is zero in every column
+  /// (its loads are zero whatever the velocity there).
+  InducedVelocity bound_velocity;
   /// The Trefftz-plane kernel of the wake (TrefftzKernel, loads.hpp), strips x strips; empty when not solved.
   Eigen::MatrixXd trefftz_kernel;
   /// Velocity induced at the control points by each surface alone, for the six basis columns: column

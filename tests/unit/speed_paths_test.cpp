@@ -399,6 +399,45 @@ TEST(SpeedPaths, VelocityOfEachColumnIsItsOwnWhateverTheOtherColumns) {
   }
 }
 
+TEST(SpeedPaths, VelocityOfStripsWithoutCirculationIsLeftOutExactly) {
+  // Strips whose circulation is zero in every column are not evaluated (a centre-line fin when only the
+  // symmetric system was solved): the velocities must still be the reference's, on the mirror path and off it.
+  const Lattice lat = BuildLattice(CaseOf({Wing(6, 14), Fin(4, 6)}));
+  Eigen::MatrixXd gamma = SomeCirculations(lat, 4);
+  const std::size_t fin = lat.surfaces[1].first_panel;
+  for (std::size_t i = fin; i < fin + lat.surfaces[1].panels; ++i)
+    gamma.row(static_cast<Eigen::Index>(i)).setZero();
+  // A strip and its mirror without circulation (left out), and a pair with antisymmetric circulation: no
+  // sums, but differences (it must be evaluated).
+  const auto rows_of = [&](std::size_t strip, int r) {
+    const Strip& m = lat.strips[strip];
+    const Strip& g = lat.strips[static_cast<std::size_t>(m.mirror_of)];
+    return std::pair<Eigen::Index, Eigen::Index>{static_cast<Eigen::Index>(m.first_panel) + r,
+                                                 static_cast<Eigen::Index>(g.first_panel) + r};
+  };
+  ASSERT_GE(lat.strips[3].mirror_of, 0);
+  ASSERT_GE(lat.strips[5].mirror_of, 0);
+  for (int r = 0; r < lat.strips[3].panels; ++r) {
+    const auto [m, g] = rows_of(3, r);
+    gamma.row(m).setZero();
+    gamma.row(g).setZero();
+  }
+  for (int r = 0; r < lat.strips[5].panels; ++r) {
+    const auto [m, g] = rows_of(5, r);
+    gamma.row(m) = -gamma.row(g);
+  }
+  const PointArray mid = BoundMidpoints(lat), scattered = ScatteredPoints(29);
+  for (const PointArray* points : {&mid, &scattered}) {
+    for (const WakeGeometry& wake : {XAxisWake(), XAxisWake(true)}) {
+      const InducedVelocity fast = InducedVelocityAt(lat, *points, gamma, wake);
+      const InducedVelocity ref = ReferenceVelocity(lat, *points, gamma, wake);
+      EXPECT_LE(WorstColumnError(fast.u, ref.u), kRelative);
+      EXPECT_LE(WorstColumnError(fast.v, ref.v), kRelative);
+      EXPECT_LE(WorstColumnError(fast.w, ref.w), kRelative);
+    }
+  }
+}
+
 TEST(SpeedPaths, VelocityOfNoColumnsOrNoPointsIsEmpty) {
   const Lattice lat = BuildLattice(CaseOf({Wing(3, 4)}));
   const InducedVelocity none = InducedVelocityAt(lat, BoundMidpoints(lat), Eigen::MatrixXd(static_cast<Eigen::Index>(lat.panels()), 0),
