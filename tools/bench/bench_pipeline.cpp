@@ -22,6 +22,7 @@
 // tools/bench.sh builds and runs it. The aircraft is our own invention.
 #include <algorithm>
 #include <chrono>
+#include <cstdint>
 #include <cstdio>
 #include <cstdlib>
 #include <ctime>
@@ -37,6 +38,7 @@
 #include <fmt/format.h>
 #include <lapacke.h>
 #include <omp.h>
+#include <sys/mman.h>
 #include <sys/resource.h>
 #include <unistd.h>
 
@@ -214,6 +216,23 @@ double TimeDgetrf(const Eigen::MatrixXd& a, Eigen::MatrixXd& work, std::vector<l
   return t;
 }
 
+/// Seconds to allocate an n x n matrix and write it once, column by column on every thread, the large pages
+/// asked for as AssembleInfluence asks (influence.cpp, AdviseHugePages): the first-touch cost a fresh matrix
+/// carries, whatever fills it.
+double FirstTouchSeconds(Eigen::Index n) {
+  const auto t0 = Clock::now();
+  Eigen::MatrixXd m(n, n);
+  constexpr std::uintptr_t kHuge = std::uintptr_t{1} << 21;
+  const auto begin = reinterpret_cast<std::uintptr_t>(m.data());
+  const std::uintptr_t end = begin + sizeof(double) * static_cast<std::uintptr_t>(m.size());
+  const std::uintptr_t first = (begin + kHuge - 1) & ~(kHuge - 1), last = end & ~(kHuge - 1);
+  if (last > first) madvise(reinterpret_cast<void*>(first), last - first, MADV_HUGEPAGE);
+#pragma omp parallel for schedule(static)
+  for (Eigen::Index j = 0; j < n; ++j) m.col(j).setZero();
+  benchmark::DoNotOptimize(m.data());
+  return Since(t0);
+}
+
 // ---- benchmarks --------------------------------------------------------------------------------------------
 
 void Factorise(benchmark::State& state) {
@@ -264,6 +283,12 @@ void Assembly(benchmark::State& state) {
     Keep(fmt::format("assembly ns/entry (cpu, all threads) N={}", n), 1e9 * ca / entries);
     Keep(fmt::format("assembly ns/entry (cpu / threads) N={}", n), 1e9 * ca / entries / omp_get_max_threads());
     Keep(fmt::format("assembly/factorisation N={}", n), ta / tf);
+    // What the assembly pays the operating system before its kernel runs: the first touch of a fresh matrix
+    // of the same size (huge pages asked for, as the assembly does), on every thread. It varies with the
+    // machine's free memory; the assembly's time less this one estimates the kernel's.
+    const double tz = FirstTouchSeconds(static_cast<Eigen::Index>(n));
+    Keep(fmt::format("first touch of a fresh N x N matrix, ns/entry (wall) N={}", n), 1e9 * tz / entries);
+    Keep(fmt::format("assembly less that first touch, ns/entry (wall) N={}", n), 1e9 * (ta - tz) / entries);
   }
 }
 
