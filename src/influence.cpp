@@ -171,6 +171,20 @@ void EdgeDirections(const Shoe& s, double* ul, double* ur) {
   }
 }
 
+/// Runs [first, last) of the positions from .. to - 1, each as long as joins(first, j) holds for its every j:
+/// the strips both passes evaluate together.
+template <class Joins>
+std::vector<std::pair<std::size_t, std::size_t>> StripRuns(std::size_t from, std::size_t to, const Joins& joins) {
+  std::vector<std::pair<std::size_t, std::size_t>> runs;
+  for (std::size_t r = from; r < to;) {
+    std::size_t e = r + 1;
+    while (e < to && joins(r, e)) ++e;
+    runs.emplace_back(r, e);
+    r = e;
+  }
+  return runs;
+}
+
 // ---- assembly: a strip's columns, the source fixed, the targets vectorised ------------------------------
 
 struct TargetArrays {
@@ -213,6 +227,60 @@ Column ColumnOf(const Shoe& s, const double* ul, const double* ur) {
   return c;
 }
 
+/// What a strip's legs and side edges give at P without their core (the common part of StripFields and
+/// VelocityFields): for the left leg the vector c0 = d x (P - TA) and w0 = -(1 + r . d / |r|) |c0|^2 / (4 pi),
+/// so that it induces w0 c0 / (h0 + eps^4), h0 = |c0|^4 (the right leg likewise, strength +1); for the left
+/// edge the vector ml = ul x (P - TA) with its scale sl = |ml|^2 / (4 pi), kl = |ml|^4 and the cosine gl at TA
+/// (the right edge likewise, through TB).
+struct StripGeometry {
+  double c0[3], w0, h0, c4[3], w4, h4;
+  double ml[3], sl, kl, gl, mr[3], sr, kr, gr;
+};
+SKEIN_ALWAYS_INLINE StripGeometry StripGeometryAt(const Shoe& s, const double* ul, const double* ur, double px,
+                                                  double py, double pz) {
+  StripGeometry g;
+  const double qx = px - s.ta[0], qy = py - s.ta[1], qz = pz - s.ta[2];
+  const double sx = px - s.tb[0], sy = py - s.tb[1], sz = pz - s.tb[2];
+  // 1/|P - TA| and 1/|P - TB| from one division (GCC 12 leaves the calling loops scalar with two, or with a
+  // floor on the product). The distances' floor keeps the product normal; a target on TA (or TB) has r = 0
+  // there, so the large inverse it gets multiplies zero.
+  const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTinyDistance);
+  const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTinyDistance);
+  const double inv = 1.0 / (nq * ns), inq = ns * inv, ins = nq * inv;
+  g.c0[0] = s.d[1] * qz - s.d[2] * qy;
+  g.c0[1] = s.d[2] * qx - s.d[0] * qz;
+  g.c0[2] = s.d[0] * qy - s.d[1] * qx;
+  g.c4[0] = s.d[1] * sz - s.d[2] * sy;
+  g.c4[1] = s.d[2] * sx - s.d[0] * sz;
+  g.c4[2] = s.d[0] * sy - s.d[1] * sx;
+  const double h0 = g.c0[0] * g.c0[0] + g.c0[1] * g.c0[1] + g.c0[2] * g.c0[2];
+  const double h4 = g.c4[0] * g.c4[0] + g.c4[1] * g.c4[1] + g.c4[2] * g.c4[2];
+  g.w0 = -kInv4Pi * (1.0 + (qx * s.d[0] + qy * s.d[1] + qz * s.d[2]) * inq) * h0;
+  g.w4 = kInv4Pi * (1.0 + (sx * s.d[0] + sy * s.d[1] + sz * s.d[2]) * ins) * h4;
+  g.h0 = h0 * h0;
+  g.h4 = h4 * h4;
+  g.ml[0] = ul[1] * qz - ul[2] * qy;
+  g.ml[1] = ul[2] * qx - ul[0] * qz;
+  g.ml[2] = ul[0] * qy - ul[1] * qx;
+  g.mr[0] = ur[1] * sz - ur[2] * sy;
+  g.mr[1] = ur[2] * sx - ur[0] * sz;
+  g.mr[2] = ur[0] * sy - ur[1] * sx;
+  const double hl = g.ml[0] * g.ml[0] + g.ml[1] * g.ml[1] + g.ml[2] * g.ml[2];
+  const double hr = g.mr[0] * g.mr[0] + g.mr[1] * g.mr[1] + g.mr[2] * g.mr[2];
+  g.sl = kInv4Pi * hl;
+  g.sr = kInv4Pi * hr;
+  g.kl = hl * hl;
+  g.kr = hr * hr;
+  g.gl = (ul[0] * qx + ul[1] * qy + ul[2] * qz) * inq;
+  g.gr = (ur[0] * sx + ur[1] * sy + ur[2] * sz) * ins;
+  return g;
+}
+
+/// v . n, v given by value (a pointer into the caller's StripGeometry would keep its loop from vectorising).
+SKEIN_ALWAYS_INLINE double Along(double vx, double vy, double vz, double nx, double ny, double nz) {
+  return vx * nx + vy * ny + vz * nz;
+}
+
 /// The strip's fields at every target of t, for the horseshoe s with side edges along ul and ur.
 SKEIN_ALWAYS_INLINE void StripStartImpl(const TargetArrays& t, const Shoe& src, const double* uleft,
                                         const double* uright, StripFields f) {
@@ -221,59 +289,60 @@ SKEIN_ALWAYS_INLINE void StripStartImpl(const TargetArrays& t, const Shoe& src, 
   const double *px = t.px, *py = t.py, *pz = t.pz, *nx = t.nx, *ny = t.ny, *nz = t.nz;
 #pragma omp simd
   for (std::size_t i = 0; i < t.n; ++i) {
-    const double qx = px[i] - s.ta[0], qy = py[i] - s.ta[1], qz = pz[i] - s.ta[2];
-    const double sx = px[i] - s.tb[0], sy = py[i] - s.tb[1], sz = pz[i] - s.tb[2];
-    // 1/|P - TA| and 1/|P - TB| from one division (GCC 12 leaves this loop scalar with two, or with a floor
-    // on the product). The distances' floor keeps the product normal; a target on TA (or TB) has r = 0 there,
-    // so the large inverse it gets multiplies zero.
-    const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTinyDistance);
-    const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTinyDistance);
-    const double inv = 1.0 / (nq * ns), inq = ns * inv, ins = nq * inv;
-    // Semi-infinite legs: c = d x r.
-    const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
-    const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
-    const double h0 = c0x * c0x + c0y * c0y + c0z * c0z, h4 = c4x * c4x + c4y * c4y + c4z * c4z;
-    f.wl[i] = -kInv4Pi * (1.0 + (qx * s.d[0] + qy * s.d[1] + qz * s.d[2]) * inq) * h0 *
-              (c0x * nx[i] + c0y * ny[i] + c0z * nz[i]);
-    f.hl[i] = h0 * h0;
-    f.wr[i] = kInv4Pi * (1.0 + (sx * s.d[0] + sy * s.d[1] + sz * s.d[2]) * ins) * h4 *
-              (c4x * nx[i] + c4y * ny[i] + c4z * nz[i]);
-    f.hr[i] = h4 * h4;
-    // Side edges.
-    const double mlx = ul[1] * qz - ul[2] * qy, mly = ul[2] * qx - ul[0] * qz, mlz = ul[0] * qy - ul[1] * qx;
-    const double mrx = ur[1] * sz - ur[2] * sy, mry = ur[2] * sx - ur[0] * sz, mrz = ur[0] * sy - ur[1] * sx;
-    const double hl = mlx * mlx + mly * mly + mlz * mlz, hr = mrx * mrx + mry * mry + mrz * mrz;
-    f.gl[i] = (ul[0] * qx + ul[1] * qy + ul[2] * qz) * inq;
-    f.ml[i] = kInv4Pi * hl * (mlx * nx[i] + mly * ny[i] + mlz * nz[i]);
-    f.kl[i] = hl * hl;
-    f.gr[i] = (ur[0] * sx + ur[1] * sy + ur[2] * sz) * ins;
-    f.mr[i] = kInv4Pi * hr * (mrx * nx[i] + mry * ny[i] + mrz * nz[i]);
-    f.kr[i] = hr * hr;
+    const StripGeometry g = StripGeometryAt(s, ul, ur, px[i], py[i], pz[i]);
+    f.wl[i] = g.w0 * Along(g.c0[0], g.c0[1], g.c0[2], nx[i], ny[i], nz[i]);
+    f.hl[i] = g.h0;
+    f.wr[i] = g.w4 * Along(g.c4[0], g.c4[1], g.c4[2], nx[i], ny[i], nz[i]);
+    f.hr[i] = g.h4;
+    f.gl[i] = g.gl;
+    f.ml[i] = g.sl * Along(g.ml[0], g.ml[1], g.ml[2], nx[i], ny[i], nz[i]);
+    f.kl[i] = g.kl;
+    f.gr[i] = g.gr;
+    f.mr[i] = g.sr * Along(g.mr[0], g.mr[1], g.mr[2], nx[i], ny[i], nz[i]);
+    f.kr[i] = g.kr;
   }
 }
 
-/// n . v at P of a column's horseshoe, from the strip's fields at target i (see StripFields): two square
-/// roots and one division, 1/x = y z / (x y z) over the legs', the edges' and the bound segment's
-/// denominators (each floored at kDenominatorFloor; of order length^8, length^10 and length^10).
-SKEIN_ALWAYS_INLINE double ColumnAt(const Column& c, const StripFields& f, std::size_t i, double px, double py,
-                                    double pz, double nx, double ny, double nz) {
+/// What a column's horseshoe needs at P beside the strip's fields (hl, hr, kl, kr: the legs' and the edges'
+/// denominators there, without the core): its bound segment's term, |P - A| and |P - B|, the cores added,
+/// the projections of P - A and P - B on the side edges, and the three grouped denominators (each floored at
+/// kDenominatorFloor; of order length^8, length^10 and length^10), whose product takes the one division.
+struct ColumnTerms {
+  Term tm;
+  double n1, n2, fl, fr, el, er, a1, a2, d1, d2, d3;
+};
+SKEIN_ALWAYS_INLINE ColumnTerms ColumnTermsAt(const Column& c, double hl, double hr, double kl, double kr,
+                                              double px, double py, double pz) {
+  ColumnTerms t;
   const double r1x = px - c.a[0], r1y = py - c.a[1], r1z = pz - c.a[2];
   const double r2x = px - c.b[0], r2y = py - c.b[1], r2z = pz - c.b[2];
-  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
-  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
-  const Term tm = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, c.r0[0], c.r0[1], c.r0[2], c.eb);
+  t.n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
+  t.n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
+  t.tm = SegmentTerm(r1x, r1y, r1z, t.n1, r2x, r2y, r2z, t.n2, c.r0[0], c.r0[1], c.r0[2], c.eb);
   const double e = c.e;
-  const double fl = f.hl[i] + e, fr = f.hr[i] + e, el = f.kl[i] + e, er = f.kr[i] + e;
-  const double a1 = c.ul[0] * r1x + c.ul[1] * r1y + c.ul[2] * r1z;
-  const double a2 = c.ur[0] * r2x + c.ur[1] * r2y + c.ur[2] * r2z;
-  const double d1 = std::max(fl * fr, kDenominatorFloor);
-  const double d2 = std::max(n1 * n2 * el * er, kDenominatorFloor);
-  const double d3 = tm.den;
-  const double legs = f.wl[i] * fr + f.wr[i] * fl;
-  const double edges = (f.gl[i] * n1 - a1) * n2 * f.ml[i] * er + (a2 - f.gr[i] * n2) * n1 * f.mr[i] * el;
-  const double bound = tm.num * (tm.cx * nx + tm.cy * ny + tm.cz * nz);
-  const double d23 = d2 * d3;
-  return (legs * d23 + (edges * d3 + bound * d2) * d1) / (d1 * d23);
+  t.fl = hl + e;
+  t.fr = hr + e;
+  t.el = kl + e;
+  t.er = kr + e;
+  t.a1 = c.ul[0] * r1x + c.ul[1] * r1y + c.ul[2] * r1z;
+  t.a2 = c.ur[0] * r2x + c.ur[1] * r2y + c.ur[2] * r2z;
+  t.d1 = std::max(t.fl * t.fr, kDenominatorFloor);
+  t.d2 = std::max(t.n1 * t.n2 * t.el * t.er, kDenominatorFloor);
+  t.d3 = t.tm.den;
+  return t;
+}
+
+/// n . v at P of a column's horseshoe, from the strip's fields at target i (see StripFields): two square
+/// roots and one division (ColumnTermsAt).
+SKEIN_ALWAYS_INLINE double ColumnAt(const Column& c, const StripFields& f, std::size_t i, double px, double py,
+                                    double pz, double nx, double ny, double nz) {
+  const ColumnTerms t = ColumnTermsAt(c, f.hl[i], f.hr[i], f.kl[i], f.kr[i], px, py, pz);
+  const double legs = f.wl[i] * t.fr + f.wr[i] * t.fl;
+  const double edges =
+      (f.gl[i] * t.n1 - t.a1) * t.n2 * f.ml[i] * t.er + (t.a2 - f.gr[i] * t.n2) * t.n1 * f.mr[i] * t.el;
+  const double bound = t.tm.num * (t.tm.cx * nx + t.tm.cy * ny + t.tm.cz * nz);
+  const double d23 = t.d2 * t.d3;
+  return (legs * d23 + (edges * t.d3 + bound * t.d2) * t.d1) / (t.d1 * d23);
 }
 
 /// Column of a single system: out[i] = n_i . v(P_i) of the column's horseshoe (and its ground image).
@@ -362,40 +431,19 @@ SKEIN_ALWAYS_INLINE void VelocityStartImpl(const BlockPoints& p, const Shoe& src
   const double ul[3] = {uleft[0], uleft[1], uleft[2]}, ur[3] = {uright[0], uright[1], uright[2]};
 #pragma omp simd
   for (std::size_t i = 0; i < kVelocityBlock; ++i) {
-    const double qx = p.x[i] - s.ta[0], qy = p.y[i] - s.ta[1], qz = p.z[i] - s.ta[2];
-    const double sx = p.x[i] - s.tb[0], sy = p.y[i] - s.tb[1], sz = p.z[i] - s.tb[2];
-    // 1/|P - TA| and 1/|P - TB| from one division (GCC 12 leaves this loop scalar with two, or with a floor
-    // on the product). The distances' floor keeps the product normal; a target on TA (or TB) has r = 0 there,
-    // so the large inverse it gets multiplies zero.
-    const double nq = std::max(std::sqrt(qx * qx + qy * qy + qz * qz), kTinyDistance);
-    const double ns = std::max(std::sqrt(sx * sx + sy * sy + sz * sz), kTinyDistance);
-    const double inv = 1.0 / (nq * ns), inq = ns * inv, ins = nq * inv;
-    const double c0x = s.d[1] * qz - s.d[2] * qy, c0y = s.d[2] * qx - s.d[0] * qz, c0z = s.d[0] * qy - s.d[1] * qx;
-    const double c4x = s.d[1] * sz - s.d[2] * sy, c4y = s.d[2] * sx - s.d[0] * sz, c4z = s.d[0] * sy - s.d[1] * sx;
-    const double h0 = c0x * c0x + c0y * c0y + c0z * c0z, h4 = c4x * c4x + c4y * c4y + c4z * c4z;
-    const double w0 = -kInv4Pi * (1.0 + (qx * s.d[0] + qy * s.d[1] + qz * s.d[2]) * inq) * h0;
-    const double w4 = kInv4Pi * (1.0 + (sx * s.d[0] + sy * s.d[1] + sz * s.d[2]) * ins) * h4;
-    f.wl[0][i] = w0 * c0x;
-    f.wl[1][i] = w0 * c0y;
-    f.wl[2][i] = w0 * c0z;
-    f.hl[i] = h0 * h0;
-    f.wr[0][i] = w4 * c4x;
-    f.wr[1][i] = w4 * c4y;
-    f.wr[2][i] = w4 * c4z;
-    f.hr[i] = h4 * h4;
-    const double mlx = ul[1] * qz - ul[2] * qy, mly = ul[2] * qx - ul[0] * qz, mlz = ul[0] * qy - ul[1] * qx;
-    const double mrx = ur[1] * sz - ur[2] * sy, mry = ur[2] * sx - ur[0] * sz, mrz = ur[0] * sy - ur[1] * sx;
-    const double hl = mlx * mlx + mly * mly + mlz * mlz, hr = mrx * mrx + mry * mry + mrz * mrz;
-    f.gl[i] = (ul[0] * qx + ul[1] * qy + ul[2] * qz) * inq;
-    f.ml[0][i] = kInv4Pi * hl * mlx;
-    f.ml[1][i] = kInv4Pi * hl * mly;
-    f.ml[2][i] = kInv4Pi * hl * mlz;
-    f.kl[i] = hl * hl;
-    f.gr[i] = (ur[0] * sx + ur[1] * sy + ur[2] * sz) * ins;
-    f.mr[0][i] = kInv4Pi * hr * mrx;
-    f.mr[1][i] = kInv4Pi * hr * mry;
-    f.mr[2][i] = kInv4Pi * hr * mrz;
-    f.kr[i] = hr * hr;
+    const StripGeometry g = StripGeometryAt(s, ul, ur, p.x[i], p.y[i], p.z[i]);
+    for (std::size_t k = 0; k < 3; ++k) {
+      f.wl[k][i] = g.w0 * g.c0[k];
+      f.wr[k][i] = g.w4 * g.c4[k];
+      f.ml[k][i] = g.sl * g.ml[k];
+      f.mr[k][i] = g.sr * g.mr[k];
+    }
+    f.hl[i] = g.h0;
+    f.hr[i] = g.h4;
+    f.gl[i] = g.gl;
+    f.kl[i] = g.kl;
+    f.gr[i] = g.gr;
+    f.kr[i] = g.kr;
   }
 }
 
@@ -403,26 +451,15 @@ SKEIN_ALWAYS_INLINE void VelocityStartImpl(const BlockPoints& p, const Shoe& src
 /// vectors (two square roots, one division).
 SKEIN_ALWAYS_INLINE void ColumnVelocityAt(const Column& c, const VelocityFields& f, std::size_t i, double px,
                                           double py, double pz, double& u, double& v, double& w) {
-  const double r1x = px - c.a[0], r1y = py - c.a[1], r1z = pz - c.a[2];
-  const double r2x = px - c.b[0], r2y = py - c.b[1], r2z = pz - c.b[2];
-  const double n1 = std::max(std::sqrt(r1x * r1x + r1y * r1y + r1z * r1z), kTiny);
-  const double n2 = std::max(std::sqrt(r2x * r2x + r2y * r2y + r2z * r2z), kTiny);
-  const Term tm = SegmentTerm(r1x, r1y, r1z, n1, r2x, r2y, r2z, n2, c.r0[0], c.r0[1], c.r0[2], c.eb);
-  const double e = c.e;
-  const double fl = f.hl[i] + e, fr = f.hr[i] + e, el = f.kl[i] + e, er = f.kr[i] + e;
-  const double a1 = c.ul[0] * r1x + c.ul[1] * r1y + c.ul[2] * r1z;
-  const double a2 = c.ur[0] * r2x + c.ur[1] * r2y + c.ur[2] * r2z;
-  const double d1 = std::max(fl * fr, kDenominatorFloor);
-  const double d2 = std::max(n1 * n2 * el * er, kDenominatorFloor);
-  const double d3 = tm.den;
-  const double d23 = d2 * d3, inv = 1.0 / (d1 * d23);
-  const double legs = d23 * inv, edges = d1 * d3 * inv;
-  const double sl = fr * legs, sr = fl * legs;
-  const double tl = (f.gl[i] * n1 - a1) * n2 * er * edges, tr = (a2 - f.gr[i] * n2) * n1 * el * edges;
-  const double sb = tm.num * d1 * d2 * inv;
-  u += sl * f.wl[0][i] + sr * f.wr[0][i] + tl * f.ml[0][i] + tr * f.mr[0][i] + sb * tm.cx;
-  v += sl * f.wl[1][i] + sr * f.wr[1][i] + tl * f.ml[1][i] + tr * f.mr[1][i] + sb * tm.cy;
-  w += sl * f.wl[2][i] + sr * f.wr[2][i] + tl * f.ml[2][i] + tr * f.mr[2][i] + sb * tm.cz;
+  const ColumnTerms t = ColumnTermsAt(c, f.hl[i], f.hr[i], f.kl[i], f.kr[i], px, py, pz);
+  const double d23 = t.d2 * t.d3, inv = 1.0 / (t.d1 * d23);
+  const double legs = d23 * inv, edges = t.d1 * t.d3 * inv;
+  const double sl = t.fr * legs, sr = t.fl * legs;
+  const double tl = (f.gl[i] * t.n1 - t.a1) * t.n2 * t.er * edges, tr = (t.a2 - f.gr[i] * t.n2) * t.n1 * t.el * edges;
+  const double sb = t.tm.num * t.d1 * t.d2 * inv;
+  u += sl * f.wl[0][i] + sr * f.wr[0][i] + tl * f.ml[0][i] + tr * f.mr[0][i] + sb * t.tm.cx;
+  v += sl * f.wl[1][i] + sr * f.wr[1][i] + tl * f.ml[1][i] + tr * f.mr[1][i] + sb * t.tm.cy;
+  w += sl * f.wl[2][i] + sr * f.wr[2][i] + tl * f.ml[2][i] + tr * f.mr[2][i] + sb * t.tm.cz;
 }
 
 /// Velocities at the block's targets of one source (and its ground image): out[0..kVelocityRows).
@@ -601,22 +638,6 @@ Kernels KernelsFor() {
 #undef SKEIN_KERNELS_OF
 Kernels KernelsFor(bool ground) { return ground ? KernelsFor<true>() : KernelsFor<false>(); }
 
-/// Asks the kernel to back a large matrix with transparent huge pages before its first touch (Linux, where
-/// they are enabled on request): the assembly's first writes then fault 2 MiB pages instead of 4 KiB ones and
-/// the factorisation walks the matrix with far fewer TLB misses. Only the aligned interior is advised; the
-/// memory used is the same. Elsewhere, or if the kernel declines, nothing changes.
-void AdviseHugePages(Eigen::MatrixXd& m) {
-#if defined(__linux__) && defined(MADV_HUGEPAGE)
-  constexpr std::uintptr_t kHuge = std::uintptr_t{1} << 21;
-  const auto begin = reinterpret_cast<std::uintptr_t>(m.data());
-  const std::uintptr_t end = begin + sizeof(double) * static_cast<std::uintptr_t>(m.size());
-  const std::uintptr_t first = (begin + kHuge - 1) & ~(kHuge - 1), last = end & ~(kHuge - 1);
-  if (last > first) madvise(reinterpret_cast<void*>(first), last - first, MADV_HUGEPAGE);
-#else
-  (void)m;
-#endif
-}
-
 // ---- the mirror plan of the velocity pass --------------------------------------------------------------
 
 /// Order of the sources in the velocity pass and the targets it evaluates. Mirrored: order = [given panels |
@@ -737,6 +758,18 @@ std::vector<SystemLayout> ChooseLayouts(const Lattice& lat, const WakeGeometry& 
   return {sym, anti};
 }
 
+void AdviseHugePages(Eigen::MatrixXd& m) {
+#if defined(__linux__) && defined(MADV_HUGEPAGE)
+  constexpr std::uintptr_t kHuge = std::uintptr_t{1} << 21;
+  const auto begin = reinterpret_cast<std::uintptr_t>(m.data());
+  const std::uintptr_t end = begin + sizeof(double) * static_cast<std::uintptr_t>(m.size());
+  const std::uintptr_t first = (begin + kHuge - 1) & ~(kHuge - 1), last = end & ~(kHuge - 1);
+  if (last > first) madvise(reinterpret_cast<void*>(first), last - first, MADV_HUGEPAGE);
+#else
+  (void)m;
+#endif
+}
+
 std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::vector<SystemLayout>& layouts,
                                                const WakeGeometry& wake) {
   SKEIN_ASSERT(layouts.size() == 1 || layouts.size() == 2);
@@ -771,18 +804,17 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
   // every A on the line through TA and the run's first A, and every B on the line through TB and its first
   // B, to rounding: a strip's chordwise panels. What they share at a target (StripFields) is computed once per
   // run and block of targets, and a column's arithmetic is the same whichever run or thread it falls in.
-  std::vector<std::size_t> run_start;
+  std::vector<Shoe> direct(n), image(n);  // column j's horseshoe, and its mirror image's in a split layout
+  const auto has_image = [&](std::size_t j) { return split && wide.image[j] >= 0; };
   for (std::size_t j = 0; j < n; ++j) {
-    const bool has_image = split && wide.image[j] >= 0;
-    bool joins = j > 0 && !run_start.empty() && has_image == (split && wide.image[j - 1] >= 0) &&
-                 SameStrip(LoadShoe(lat, wide.panel[run_start.back()], wake), LoadShoe(lat, wide.panel[j], wake));
-    if (joins && has_image)
-      joins = SameStrip(LoadShoe(lat, static_cast<std::size_t>(wide.image[run_start.back()]), wake),
-                        LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake));
-    if (!joins) run_start.push_back(j);
+    direct[j] = LoadShoe(lat, wide.panel[j], wake);
+    if (has_image(j)) image[j] = LoadShoe(lat, static_cast<std::size_t>(wide.image[j]), wake);
   }
-  run_start.push_back(n);
-  const auto nruns = static_cast<std::ptrdiff_t>(run_start.size() - 1);
+  const std::vector<std::pair<std::size_t, std::size_t>> runs = StripRuns(0, n, [&](std::size_t r, std::size_t j) {
+    return has_image(r) == has_image(j) && SameStrip(direct[r], direct[j]) &&
+           (!has_image(j) || SameStrip(image[r], image[j]));
+  });
+  const auto nruns = static_cast<std::ptrdiff_t>(runs.size());
   // Targets in blocks, so that a run's fields stay in the core's cache while its columns are computed.
   constexpr std::size_t kTargetBlock = 512;
 #pragma omp parallel
@@ -807,18 +839,18 @@ std::vector<Eigen::MatrixXd> AssembleInfluence(const Lattice& lat, const std::ve
     std::vector<std::array<Column, 4>> columns;
 #pragma omp for schedule(dynamic, 1)
     for (std::ptrdiff_t run = 0; run < nruns; ++run) {
-      const auto r = static_cast<std::size_t>(run);
-      const std::size_t first = run_start[r], count = run_start[r + 1] - first;
-      const bool paired = split && wide.image[first] >= 0;
+      const auto [first, last] = runs[static_cast<std::size_t>(run)];
+      const std::size_t count = last - first;
+      const bool paired = has_image(first);
       const int variants = paired ? 4 : 2;
       shoes.resize(count);
       columns.resize(count);
       for (std::size_t q = 0; q < count; ++q) {
         std::array<Shoe, 4>& sh = shoes[q];
-        sh[0] = LoadShoe(lat, wide.panel[first + q], wake);
+        sh[0] = direct[first + q];
         sh[1] = ground ? GroundImage(sh[0], wake) : sh[0];
         if (paired) {
-          sh[2] = LoadShoe(lat, static_cast<std::size_t>(wide.image[first + q]), wake);
+          sh[2] = image[first + q];
           sh[3] = ground ? GroundImage(sh[2], wake) : sh[2];
         }
       }
@@ -916,11 +948,10 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
   std::vector<Run> runs;
   std::vector<std::array<Column, 2>> columns(ns);
   const auto add_runs = [&](std::size_t from, std::size_t to, bool paired) {
-    for (std::size_t r = from; r < to;) {
-      std::size_t e = r + 1;
-      while (e < to && SameStrip(shoes[r][0], shoes[e][0]) &&
-             (!paired || SameStrip(shoes[given + r][0], shoes[given + e][0])))
-        ++e;
+    const auto joins = [&](std::size_t r, std::size_t e) {
+      return SameStrip(shoes[r][0], shoes[e][0]) && (!paired || SameStrip(shoes[given + r][0], shoes[given + e][0]));
+    };
+    for (const auto& [r, e] : StripRuns(from, to, joins)) {
       Run run{r, e, paired, {}, {}};
       for (std::size_t v = 0; v < (paired ? 4u : 2u); ++v)
         EdgeDirections(shoes[r + (v / 2) * given][v % 2], run.ul[v], run.ur[v]);
@@ -928,7 +959,6 @@ InducedVelocity InducedVelocityAt(const Lattice& lat, const PointArray& points, 
         for (std::size_t v = 0; v < (paired ? 4u : 2u); ++v)
           columns[q + (v / 2) * given][v % 2] = ColumnOf(shoes[q + (v / 2) * given][v % 2], run.ul[v], run.ur[v]);
       runs.push_back(run);
-      r = e;
     }
   };
   if (plan.mirrored) {

@@ -22,7 +22,6 @@
 // tools/bench.sh builds and runs it. The aircraft is our own invention.
 #include <algorithm>
 #include <chrono>
-#include <cstdint>
 #include <cstdio>
 #include <cstdlib>
 #include <ctime>
@@ -38,7 +37,6 @@
 #include <fmt/format.h>
 #include <lapacke.h>
 #include <omp.h>
-#include <sys/mman.h>
 #include <sys/resource.h>
 #include <unistd.h>
 
@@ -217,16 +215,12 @@ double TimeDgetrf(const Eigen::MatrixXd& a, Eigen::MatrixXd& work, std::vector<l
 }
 
 /// Seconds to allocate an n x n matrix and write it once, column by column on every thread, the large pages
-/// asked for as AssembleInfluence asks (influence.cpp, AdviseHugePages): the first-touch cost a fresh matrix
-/// carries, whatever fills it.
+/// asked for as AssembleInfluence asks (skein::AdviseHugePages): the first-touch cost a fresh matrix carries,
+/// whatever fills it.
 double FirstTouchSeconds(Eigen::Index n) {
   const auto t0 = Clock::now();
   Eigen::MatrixXd m(n, n);
-  constexpr std::uintptr_t kHuge = std::uintptr_t{1} << 21;
-  const auto begin = reinterpret_cast<std::uintptr_t>(m.data());
-  const std::uintptr_t end = begin + sizeof(double) * static_cast<std::uintptr_t>(m.size());
-  const std::uintptr_t first = (begin + kHuge - 1) & ~(kHuge - 1), last = end & ~(kHuge - 1);
-  if (last > first) madvise(reinterpret_cast<void*>(first), last - first, MADV_HUGEPAGE);
+  skein::AdviseHugePages(m);
 #pragma omp parallel for schedule(static)
   for (Eigen::Index j = 0; j < n; ++j) m.col(j).setZero();
   benchmark::DoNotOptimize(m.data());
